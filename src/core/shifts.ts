@@ -1,4 +1,5 @@
 import { tzOffset } from '@date-fns/tz';
+import { millisecondsInDay, millisecondsInMinute } from 'date-fns/constants';
 import type { FieldError } from './field-error.ts';
 import { ValidationError } from './field-error.ts';
 
@@ -44,12 +45,8 @@ export interface ShiftInstance {
   key: string;
 }
 
-/** Milliseconds in one minute. */
-export const millisecondsInMinute = 60_000;
-/** Milliseconds in one hour. */
-export const millisecondsInHour = 3_600_000;
-/** Milliseconds in one 24 h calendar day of UTC (local days may be 23 h or 25 h). */
-const millisecondsInUtcDay = 86_400_000;
+// A UTC calendar day is always 24 h; local days may be 23 h or 25 h, so only UTC days are counted this way.
+const millisecondsInUtcDay = millisecondsInDay;
 /** Instants this close to the ends of the JavaScript date range are refused, so a day either side stays valid. */
 const maxEpochMs = 8_640_000_000_000_000 - 7 * millisecondsInUtcDay;
 
