@@ -145,7 +145,7 @@ export type ReadInputDraft = z.input<typeof readInputSchema>;
 
 /** Turns zod's issues into field-named errors; the message always starts with the field. */
 export function fieldErrorsFromZod(error: z.ZodError): FieldError[] {
-  return error.issues.map((issue) => {
+  const all = error.issues.map((issue) => {
     const path = issue.path.map((p, i) => (typeof p === 'number' ? `[${p}]` : i === 0 ? String(p) : `.${String(p)}`)).join('');
     const field = path || 'input';
     const params = (issue as { params?: { min?: number; max?: number } }).params;
@@ -159,6 +159,13 @@ export function fieldErrorsFromZod(error: z.ZodError): FieldError[] {
     if (params?.max !== undefined) result.max = params.max;
     return result;
   });
+  // One message per field: the one that states the allowed range wins over a bare "must be more than 0".
+  const byField = new Map<string, FieldError>();
+  for (const e of all) {
+    const seen = byField.get(e.field);
+    if (!seen || (seen.min === undefined && e.min !== undefined)) byField.set(e.field, e);
+  }
+  return [...byField.values()];
 }
 
 export type ParseResult<T> = { ok: true; value: T } | { ok: false; errors: FieldError[] };

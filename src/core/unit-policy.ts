@@ -80,7 +80,7 @@ export const defaultPolicy: UnitPolicy = {
     rateHighBpm: { value: 100, severity: 'caution', source: 'Classic adult sinus range 60-100 bpm (Spodick et al. 1992, Am J Cardiol 69:1245)' },
     prShortMs: { value: 120, severity: 'note', source: 'Normal adult PR 120-200 ms (StatPearls, Atrioventricular block; AACN Practice Alert 2016)' },
     prLongMs: { value: 200, severity: 'caution', source: 'PR > 200 ms is the first-degree AV block range (Kusumoto et al. 2018 ACC/AHA/HRS bradycardia guideline)' },
-    prMarkedMs: { value: 300, severity: 'caution', source: 'PR > 300 ms: marked first-degree AV block (Medscape reference, secondary)' },
+    prMarkedMs: { value: 300, severity: 'caution', source: 'PR > 300 ms: marked first-degree AV block (Medscape reference, a secondary source; common practice)' },
     qrsWideMs: { value: 120, severity: 'caution', source: 'QRS >= 120 ms meets the duration criterion for complete bundle-branch block (Surawicz et al. 2009, AHA/ACCF/HRS Part III)' },
     qtcProlongedMaleMs: { value: 450, severity: 'caution', source: 'Prolonged QTc >= 450 ms in men (Rautaharju et al. 2009, AHA/ACCF/HRS Part IV)' },
     qtcProlongedFemaleMs: { value: 460, severity: 'caution', source: 'Prolonged QTc >= 460 ms in women (Rautaharju et al. 2009, AHA/ACCF/HRS Part IV)' },
