@@ -9,6 +9,22 @@ import { exitCodes } from './cli-io.ts';
 import { writeFieldErrors } from './field-errors-output.ts';
 import { formatCheckTable, formatProblems, summaryLine, verifyCases } from './verify-cases.ts';
 
+/** Comma-separated names, wrapped and indented for the help text. */
+function wrapList(names: readonly string[], width = 88): string {
+  const lines: string[] = [];
+  let line = ' ';
+  for (const name of names) {
+    const piece = ` ${name},`;
+    if (line.length + piece.length > width) {
+      lines.push(line);
+      line = ' ';
+    }
+    line += piece;
+  }
+  lines.push(line.replace(/,$/, ''));
+  return lines.join('\n');
+}
+
 /** Help for `rhythm-ledger verify`. */
 export const verifyHelp = `Usage: rhythm-ledger verify CASES.csv [--policy POLICY.json]
 
@@ -32,7 +48,7 @@ Columns (first row names them, any order; lines starting with # are comments):
   default_qtc_formula    bazett, fridericia, framingham or hodges (default: unit policy)
   previous_rate_bpm, previous_pr_ms, previous_qrs_ms, previous_qtc_ms, previous_qtc_formula
 Expected (an empty cell is not checked):
-  ${knownColumns.filter((c) => c.startsWith('expect_') && !['expect_flags', 'expect_questions', 'expect_refused_columns'].includes(c)).join(', ')}
+${wrapList(knownColumns.filter((c) => c.startsWith('expect_') && !['expect_flags', 'expect_questions', 'expect_refused_columns'].includes(c)))}
   expect_flags            flag codes separated by spaces, compared as a set; "none" for no flag
   expect_questions        rhythm question codes, compared as a set; "none" for no question
   expect_refused_columns  input columns the program must refuse (a deliberately invalid read)
