@@ -1,8 +1,8 @@
 import { performance } from 'node:perf_hooks';
 
 /** Deterministic pseudo-random numbers in [0, 1) (mulberry32), so every run measures the same generated inputs. */
-export function seededRandom(seed: number): () => number {
-  let state = seed >>> 0;
+export function repeatableRandom(startValue: number): () => number {
+  let state = startValue >>> 0;
   return () => {
     state = (state + 0x6d2b79f5) >>> 0;
     let t = state;
