@@ -1,0 +1,60 @@
+import type { ChangeKind } from '../core/records.ts';
+import type { RhythmDb } from '../store/db.ts';
+import type { ServerUser } from './sync-protocol.ts';
+
+/**
+ * The sync engine's own rows in the tablet's settings table. Kept apart from the app's settings
+ * keys (all start with "sync.") so neither side can overwrite the other's.
+ */
+
+/** A server session held by this tablet. */
+export interface StoredSession {
+  token: string;
+  expiresAtMs: number;
+  user: ServerUser;
+  signedInAtMs: number;
+}
+
+/** This tablet's enrolment with the unit server; kept across sign-outs. */
+export interface StoredDevice {
+  deviceId: string;
+  deviceToken: string;
+}
+
+/** Where the last pull stopped, for one unit. */
+export interface StoredCursor {
+  unitId: string;
+  cursor: number | string;
+}
+
+/**
+ * The latest version of a unit, bed, stay or handover the server has told this tablet about, with
+ * its place in the unit's order. It may differ from the table's row while an edit made on this
+ * tablet waits to send; it is what the row goes back to if the server refuses that edit.
+ */
+export interface ServerVersion {
+  seq: number;
+  record: { id: string };
+}
+
+export const sessionKey = 'sync.session';
+export const deviceKey = 'sync.device';
+export const cursorKey = 'sync.pullCursor';
+export const lastSyncedKey = 'sync.lastSyncedAtMs';
+export const serverAccountIdsKey = 'sync.serverAccountIds';
+export const serverUrlKey = 'sync.serverUrl';
+
+/** Key of the latest server version of one record. */
+export const serverVersionKey = (kind: ChangeKind, id: string): string => `sync.serverVersion.${kind}.${id}`;
+
+/** One of the sync engine's settings, or undefined when never set. */
+export async function readSyncSetting<T>(db: RhythmDb, key: string): Promise<T | undefined> {
+  const row = await db.settings.get(key);
+  return row === undefined ? undefined : (row.value as T);
+}
+
+/** Stores one of the sync engine's settings; undefined removes it. */
+export async function writeSyncSetting(db: RhythmDb, key: string, value: unknown): Promise<void> {
+  if (value === undefined) await db.settings.delete(key);
+  else await db.settings.put({ key, value });
+}
