@@ -1,12 +1,8 @@
 import { render } from 'preact';
+import { RhythmDb } from '../store/db.ts';
+import { App } from './App.tsx';
+import { startServiceWorker } from './sw-bridge.ts';
+import './styles.css';
 
-function Shell() {
-  return (
-    <main>
-      <h1>Rhythm Ledger</h1>
-      <p>Decision support only: verify every figure on the monitor and follow your unit's protocol.</p>
-    </main>
-  );
-}
-
-render(<Shell />, document.getElementById('app')!);
+render(<App db={new RhythmDb()} />, document.getElementById('app')!);
+startServiceWorker();

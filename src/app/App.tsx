@@ -1,0 +1,47 @@
+import { useCallback, useEffect, useState } from 'preact/hooks';
+import type { ClinicianRow, RhythmDb } from '../store/db.ts';
+import type { PersistenceState } from '../store/persistent-storage.ts';
+import { requestPersistentStorage } from '../store/persistent-storage.ts';
+import { deviceIdOf, readSetting, writeSetting } from '../store/settings.ts';
+import { unitPolicyOf } from '../store/unit-policy-of.ts';
+import { ChartingContext } from './app-context.ts';
+import { flushOpenReadForm } from './open-read-form.ts';
+import { AppShell } from './AppShell.tsx';
+import { FirstRun } from './screens/FirstRun.tsx';
+import { LockScreen } from './screens/LockScreen.tsx';
+import { useLiveQuery } from './use-live-query.ts';
+
+/** The tablet app: first run, then the lock screen, then the ward behind it. */
+export function App({ db }: { db: RhythmDb }) {
+  const found = useLiveQuery(async () => {
+    const unitId = await readSetting<string | null>(db, 'currentUnitId', null);
+    const unit = unitId ? await db.units.get(unitId) : undefined;
+    return { unit: unit ?? null, demoWard: await readSetting(db, 'demoWard', false) };
+  }, []);
+  const [deviceId, setDeviceId] = useState<string | null>(null);
+  const [clinician, setClinician] = useState<ClinicianRow | null>(null);
+  const [storage, setStorage] = useState<PersistenceState | null>(null);
+
+  useEffect(() => {
+    void deviceIdOf(db, Date.now()).then(setDeviceId);
+    void requestPersistentStorage().then(async (state) => {
+      setStorage(state);
+      await writeSetting(db, 'persistentStorage', state);
+    });
+  }, [db]);
+
+  const lock = useCallback(async () => {
+    // The draft is written before the screen hides it, so the next nurse's session cannot lose it.
+    await flushOpenReadForm().catch(() => undefined);
+    setClinician(null);
+  }, []);
+
+  if (found === undefined || deviceId === null) return <p class="loading">Opening the ward…</p>;
+  if (found.unit === null) return <FirstRun db={db} />;
+  if (!clinician) return <LockScreen db={db} unit={found.unit} demoWard={found.demoWard} onUnlock={setClinician} />;
+  return (
+    <ChartingContext.Provider value={{ db, deviceId, unit: found.unit, policy: unitPolicyOf(found.unit), clinician, demoWard: found.demoWard }}>
+      <AppShell onLock={lock} storage={storage} />
+    </ChartingContext.Provider>
+  );
+}

@@ -1,0 +1,24 @@
+import { createContext } from 'preact';
+import { useContext } from 'preact/hooks';
+import type { Unit } from '../core/records.ts';
+import type { UnitPolicy } from '../core/unit-policy.ts';
+import type { ClinicianRow, RhythmDb } from '../store/db.ts';
+
+/** What every screen behind the lock needs: the store, this tablet, its unit and who is charting. */
+export interface Charting {
+  db: RhythmDb;
+  deviceId: string;
+  unit: Unit;
+  policy: UnitPolicy;
+  clinician: ClinicianRow;
+  demoWard: boolean;
+}
+
+export const ChartingContext = createContext<Charting | null>(null);
+
+/** The charting context; screens behind the lock always have one. */
+export function useCharting(): Charting {
+  const value = useContext(ChartingContext);
+  if (!value) throw new Error('useCharting is used outside the unlocked app');
+  return value;
+}
