@@ -1,18 +1,46 @@
-import { resolve } from 'node:path';
-import Fastify from 'fastify';
-import fastifyStatic from '@fastify/static';
-import { coreVersion } from '../core/core-version.ts';
+import type { FastifyInstance } from 'fastify';
+import { buildApp } from './build-app.ts';
+import type { ServerLog } from './server-log.ts';
+import type { ServerSettings } from './settings.ts';
+import { describeStorage, openStore } from './storage/open-store.ts';
+import type { Store } from './storage/store.ts';
 
-export async function startServer(env: NodeJS.ProcessEnv): Promise<void> {
-  const port = Number(env.PORT ?? 8080);
-  const host = env.HOST ?? '127.0.0.1';
-  const app = Fastify({ logger: false });
-  app.get('/api/health', async () => ({ status: 'ok', coreVersion }));
-  await app.register(fastifyStatic, { root: resolve('dist'), wildcard: false });
-  app.setNotFoundHandler((request, reply) => {
-    if (request.url.startsWith('/api/')) return reply.code(404).send({ error: 'not found' });
-    return reply.sendFile('index.html');
-  });
-  await app.listen({ port, host });
-  console.log(`Rhythm Ledger is running at http://${host}:${port}/`);
+export interface RunningServer {
+  url: string;
+  app: FastifyInstance;
+  store: Store;
+  /** Stops taking requests, lets those in flight finish, then closes the database. */
+  close(): Promise<void>;
+}
+
+/** The command that creates the first unit admin, shown when the server has no accounts yet. */
+export const firstAdminHint =
+  'No accounts yet. Create the unit and its first unit admin (the password is read from stdin):\n' +
+  '  echo "a long passphrase" | npx rhythm-ledger admin create --unit-name "4 West Telemetry" --time-zone Europe/Dublin --username admin --name "A. Admin" --password-stdin';
+
+/** Opens storage (running migrations), builds the app and listens on HOST:PORT. */
+export async function startServer(settings: ServerSettings, log: ServerLog, print: (line: string) => void = console.log): Promise<RunningServer> {
+  const store = await openStore(settings);
+  let app: FastifyInstance;
+  try {
+    app = await buildApp({ store, settings, log });
+    await app.listen({ port: settings.port, host: settings.host });
+  } catch (error) {
+    await store.close();
+    throw error;
+  }
+  const address = app.server.address();
+  const port = typeof address === 'object' && address ? address.port : settings.port;
+  const url = `http://${settings.host.includes(':') ? `[${settings.host}]` : settings.host}:${port}/`;
+  print(`Rhythm Ledger unit server is running at ${url} (${describeStorage(settings)}).`);
+  if ((await store.countUsers()) === 0) print(firstAdminHint);
+  return {
+    url,
+    app,
+    store,
+    async close() {
+      await app.close();
+      await store.close();
+    },
+  };
 }

@@ -163,6 +163,16 @@ class KyselyUnitTransaction implements UnitTransaction {
     return parse<Unit>(row.record_json);
   }
 
+  async getUser(id: string): Promise<UserRecord | undefined> {
+    const row = await this.tx.selectFrom('users').selectAll().where('id', '=', id).executeTakeFirst();
+    return row ? userFrom(row) : undefined;
+  }
+
+  async isDeviceUser(deviceId: string, userId: string): Promise<boolean> {
+    const row = await this.tx.selectFrom('device_users').select('user_id').where('device_id', '=', deviceId).where('user_id', '=', userId).executeTakeFirst();
+    return row !== undefined;
+  }
+
   async putUnit(unit: Unit): Promise<void> {
     await this.tx.updateTable('units').set({ name: unit.name, record_json: JSON.stringify(unit) }).where('id', '=', this.unitId).execute();
   }
@@ -455,7 +465,10 @@ export class KyselyStore implements Store {
   }
 
   async listAudit(filter: AuditFilter): Promise<AuditEvent[]> {
-    let query = this.db.selectFrom('audit_events').selectAll().where('unit_id', '=', filter.unitId);
+    let query = this.db
+      .selectFrom('audit_events')
+      .selectAll()
+      .where((eb) => eb.or([eb('unit_id', '=', filter.unitId), eb('unit_id', 'is', null)]));
     if (filter.kind !== undefined) query = query.where('kind', '=', filter.kind);
     if (filter.userId !== undefined) query = query.where('user_id', '=', filter.userId);
     if (filter.fromMs !== undefined) query = query.where('server_time_ms', '>=', filter.fromMs);

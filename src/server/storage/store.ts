@@ -113,6 +113,9 @@ export interface UnitTransaction {
   /** Appends to the unit's change log and returns the change's sequence number (dense: 1, 2, 3 ...). */
   appendChange(change: NewLoggedChange): Promise<number>;
   getUnit(): Promise<Unit>;
+  /** A user of any unit (the caller checks the unit), read inside this transaction. */
+  getUser(id: string): Promise<UserRecord | undefined>;
+  isDeviceUser(deviceId: string, userId: string): Promise<boolean>;
   putUnit(unit: Unit): Promise<void>;
   getBed(id: string): Promise<Bed | undefined>;
   putBed(bed: Bed, seq: number): Promise<void>;
@@ -170,7 +173,7 @@ export interface Store {
 
   /** The only way to write the audit trail: append. There is no update or delete. */
   appendAudit(event: NewAuditEvent): Promise<void>;
-  /** Newest first. */
+  /** Newest first; events not tied to any unit (sign-in failures for unknown names) are listed for every unit. */
   listAudit(filter: AuditFilter): Promise<AuditEvent[]>;
 
   /** Runs work holding the unit's change counter lock, in one database transaction. */

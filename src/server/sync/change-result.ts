@@ -9,4 +9,9 @@ export interface ChangeResult {
   /** Why the change was refused, in words a nurse can act on. */
   reason?: string;
   errors?: FieldError[];
+  /**
+   * Set on a refusal the server did not remember because it may pass later (the stay or read it
+   * needs has not arrived, or its author has not signed in on this tablet): push the same change again.
+   */
+  retryable?: boolean;
 }
