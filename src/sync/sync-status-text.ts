@@ -1,0 +1,79 @@
+import { localClockText, localDateTimeText } from '../core/zoned-time-text.ts';
+import type { SyncErrorKind } from './sync-error.ts';
+import type { SyncState } from './sync-engine.ts';
+
+/** How the status line reads: its words, and a tone the screen may colour (the words alone carry the meaning). */
+export interface SyncStatusText {
+  /** The whole line as shown. */
+  line: string;
+  /** The line without the retry countdown: what a screen reader announces when it changes. */
+  text: string;
+  /** "retrying in 30 s" while a retry after a failure is planned, else null. */
+  retryText: string | null;
+  tone: 'ok' | 'waiting' | 'problem';
+}
+
+const shortReason: Record<SyncErrorKind, string> = {
+  unreachable: 'offline',
+  timeout: 'the unit server is slow to answer',
+  'signed-out': 'not signed in',
+  'not-allowed': 'this tablet is not allowed on the unit server',
+  'rate-limited': 'the unit server is busy',
+  server: 'the unit server has a problem',
+  refused: 'the unit server refused the request',
+  malformed: "the unit server's answer was not understood",
+};
+
+const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
+
+/** "in 30 s", "in 4 min", or "now" for a wait already over. */
+export function waitText(untilMs: number, nowMs: number): string {
+  const seconds = Math.ceil((untilMs - nowMs) / 1000);
+  if (seconds <= 0) return 'now';
+  if (seconds < 90) return `in ${seconds} s`;
+  return `in ${Math.round(seconds / 60)} min`;
+}
+
+function lastSyncedText(state: SyncState, nowMs: number, timeZone: string): string {
+  if (state.lastSyncedAtMs === null) return 'not yet synced with the unit server';
+  // Within the day the clock time is clear; older than that the date is needed too.
+  const sameDay = nowMs - state.lastSyncedAtMs < 20 * 3_600_000;
+  return `last synced ${sameDay ? localClockText(state.lastSyncedAtMs, timeZone) : localDateTimeText(state.lastSyncedAtMs, timeZone)}`;
+}
+
+/**
+ * The always-visible sync line, most urgent fact first: refused changes (the nurse has to act),
+ * then sign-in, then waiting changes and why, then all clear.
+ */
+export function syncStatusText(state: SyncState, nowMs: number, timeZone: string): SyncStatusText {
+  const parts: string[] = [];
+  let tone: SyncStatusText['tone'] = 'ok';
+  if (state.rejectedCount > 0) {
+    const what = state.rejectedReadCount === state.rejectedCount ? plural(state.rejectedCount, 'read', 'reads') : plural(state.rejectedCount, 'change', 'changes');
+    parts.push(`${what} refused by the server — open ${state.rejectedCount === 1 ? 'it' : 'them'} to see why`);
+    tone = 'problem';
+  }
+  const waiting = state.pendingCount > 0 ? `${state.pendingCount} waiting to send` : null;
+  const retryText = state.signedIn && !state.running && state.nextRetryAtMs !== null && state.lastError !== null ? `retrying ${waitText(state.nextRetryAtMs, nowMs)}` : null;
+  if (!state.signedIn) {
+    parts.push(waiting ? `${waiting} — sign in to the unit server to send them` : `Not signed in to the unit server · ${lastSyncedText(state, nowMs, timeZone)}`);
+    if (tone === 'ok') tone = 'waiting';
+  } else if (state.running) {
+    parts.push(waiting ? `Sending ${state.pendingCount}…` : 'Checking the unit server for changes…');
+    if (tone === 'ok') tone = 'waiting';
+  } else if (state.lastError !== null && state.lastErrorKind !== null) {
+    const reason = shortReason[state.lastErrorKind];
+    parts.push(waiting ? `${waiting} — ${reason}` : `All reads sent · ${lastSyncedText(state, nowMs, timeZone)} — ${reason}`);
+    if (tone === 'ok') tone = 'waiting';
+  } else if (waiting) {
+    parts.push(`${waiting} · ${lastSyncedText(state, nowMs, timeZone)}`);
+    if (tone === 'ok') tone = 'waiting';
+  } else if (state.rejectedCount === 0) {
+    parts.push(`All reads sent · ${lastSyncedText(state, nowMs, timeZone)}`);
+  } else {
+    parts.push(lastSyncedText(state, nowMs, timeZone));
+  }
+  const joined = parts.join(' · ');
+  const text = joined.charAt(0).toUpperCase() + joined.slice(1);
+  return { line: retryText ? `${text}, ${retryText}` : text, text, retryText, tone };
+}
