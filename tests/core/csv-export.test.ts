@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { coreVersion } from '../../src/core/core-version.ts';
 import { csvCell, csvColumns, readsToCsv } from '../../src/core/csv-export.ts';
@@ -53,6 +54,13 @@ describe('the CSV header', () => {
     expect(header?.slice(0, 4)).toEqual(['read_id', 'stay_alias', 'bed', 'strip_time']);
     expect(header).toContain('qtc_fridericia_ms');
     expect(header?.at(-1)).toBe('problems');
+  });
+
+  it('is documented column by column, in order, in the README', () => {
+    const readme = readFileSync(new URL('../../README.md', import.meta.url), 'utf8');
+    const section = readme.slice(readme.indexOf('### CSV'), readme.indexOf('### FHIR R4'));
+    const documented = [...section.matchAll(/^\| \d+ \| `([a-z0-9_]+)` \|/gm)].map((m) => m[1]);
+    expect(documented).toEqual(csvColumns.map((c) => c.name));
   });
 });
 
