@@ -46,6 +46,12 @@ describe('a day shift with four reads, a prolonged QTc and a change to an irregu
     expect(summary.assessment).toContain('Rhythm: Sinus rhythm at 07:05; changed to Atrial fibrillation at 15:20.');
   });
 
+  it('names a change from the rhythm of the last read before the shift', () => {
+    const changed = summarizeHandover(input({ reads: [beforeShift, irregular] }), defaultPolicy);
+    expect(changed.rhythmChanges.map((c) => [c.from, c.to, c.atMs])).toEqual([['Sinus rhythm', 'Atrial fibrillation', irregular.stripTimeMs]]);
+    expect(changed.assessment).toContain('Rhythm: Sinus rhythm before the shift; changed to Atrial fibrillation at 15:20.');
+  });
+
   it('gives the rate range: 60 bpm at R-R 1 s to 100 bpm at a mean R-R of 600 ms (60 000 / R-R; Guyton & Hall)', () => {
     expect(summary.rateRangeBpm).toEqual({ min: 60, max: 100 });
     expect(summary.assessment).toContain('Rate 60 to 100 bpm across 3 reads.');
