@@ -64,6 +64,7 @@ export function runStoreSuite({ newStore }: { newStore: () => Promise<TestStore>
       expect(await store.createUser(user({ username: 'rnurse' }))).toBe(false);
       expect((await store.findUserByUsername('RNURSE'))?.id).toBe(nurse.id);
       expect((await store.getUser(nurse.id))?.username).toBe('rnurse');
+      expect((await store.inUnitTransaction(unit.id, (tx) => tx.getUser(nurse.id)))?.name).toBe('R. Nurse');
       expect(await store.countUsers()).toBe(1);
     });
 
@@ -94,6 +95,7 @@ export function runStoreSuite({ newStore }: { newStore: () => Promise<TestStore>
       await store.noteDeviceUser('dev-00001', 'user-1', baseTimeMs + 5);
       expect(await store.isDeviceUser('dev-00001', 'user-1')).toBe(true);
       expect(await store.isDeviceUser('dev-00001', 'user-2')).toBe(false);
+      expect(await store.inUnitTransaction(unit.id, (tx) => tx.isDeviceUser('dev-00001', 'user-1'))).toBe(true);
     });
 
     it('moves a session last-seen time only forward and ends every session of a user', async () => {
@@ -138,19 +140,21 @@ export function runStoreSuite({ newStore }: { newStore: () => Promise<TestStore>
     });
 
     it('lists events newest first, filtered by kind, user, time and page', async () => {
+      await store.appendAudit({ ...event('sign-in.failed', 'nobody', 500), unitId: null, userId: null });
       await store.appendAudit(event('sign-in.succeeded', 'u1', 1000));
       await store.appendAudit(event('read.signed', 'u1', 2000));
       await store.appendAudit(event('read.signed', 'u2', 3000));
       await store.appendAudit(event('sign-out', 'u1', 4000));
       await store.appendAudit({ ...event('read.signed', 'u9', 2500), unitId: 'another-unit' });
       const all = await store.listAudit({ unitId: unit.id, limit: 10 });
-      expect(all.map((e) => e.serverTimeMs)).toEqual([4000, 3000, 2000, 1000]);
+      expect(all.map((e) => e.serverTimeMs)).toEqual([4000, 3000, 2000, 1000, 500]);
       expect(all[0]?.clientTimeMs).toBe(3995);
       expect((await store.listAudit({ unitId: unit.id, kind: 'read.signed', limit: 10 })).map((e) => e.userId)).toEqual(['u2', 'u1']);
       expect((await store.listAudit({ unitId: unit.id, userId: 'u1', fromMs: 1500, toMs: 4000, limit: 10 })).map((e) => e.kind)).toEqual(['sign-out', 'read.signed']);
       const firstPage = await store.listAudit({ unitId: unit.id, limit: 2 });
       const nextPage = await store.listAudit({ unitId: unit.id, limit: 2, beforeId: firstPage[1]?.id ?? 0 });
       expect(nextPage.map((e) => e.serverTimeMs)).toEqual([2000, 1000]);
+      expect((await store.listAudit({ unitId: 'another-unit', limit: 10 })).map((e) => e.kind)).toEqual(['read.signed', 'sign-in.failed']);
     });
 
     it('offers no way to change an audit event: the store has only append and list, and the database refuses updates and deletes', async () => {

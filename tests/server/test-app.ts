@@ -53,23 +53,24 @@ export async function signIn(app: FastifyInstance, username: string, password: s
 }
 
 /** A whole server in-process over a fresh store: a unit, its admin signed in on one enrolled tablet. */
-export async function openTestApp(options: { store?: Store; settings?: Partial<ServerSettings>; log?: AppOptions['log'] } = {}): Promise<TestApp> {
+export async function openTestApp(options: { store?: Store; settings?: Partial<ServerSettings>; log?: AppOptions['log']; adminUsername?: string } = {}): Promise<TestApp> {
   const store = options.store ?? (await openSqliteStore(':memory:'));
   const clock = { nowMs: baseTimeMs };
   const appOptions: AppOptions = { store, nowMs: () => clock.nowMs, passwordLogN: testPasswordLogN, settings: { distDir: '/nonexistent-dist', ...options.settings } };
   if (options.log) appOptions.log = options.log;
   const app = await buildApp(appOptions);
   const unit = await createUnit(store, { name: '4 West Telemetry', timeZone: 'Europe/Dublin', idleLockMinutes: 5 }, clock.nowMs);
-  const adminUser = await createAccount(store, { unitId: unit.id, username: 'admin', name: 'A. Admin', role: 'unit-admin', password: testPassword }, clock.nowMs, testPasswordLogN);
+  const adminUsername = options.adminUsername ?? 'admin';
+  const adminUser = await createAccount(store, { unitId: unit.id, username: adminUsername, name: 'A. Admin', role: 'unit-admin', password: testPassword }, clock.nowMs, testPasswordLogN);
 
-  const first = (await signIn(app, 'admin', testPassword)).json() as { token: string };
+  const first = (await signIn(app, adminUsername, testPassword)).json() as { token: string };
   const enroll = async (label = 'Tablet A'): Promise<string> => {
     const answer = await app.inject({ method: 'POST', url: '/api/devices/enroll', headers: { authorization: `Bearer ${first.token}` }, payload: { label } });
     if (answer.statusCode !== 200) throw new Error(`enrolment failed: ${answer.body}`);
     return (answer.json() as { deviceToken: string }).deviceToken;
   };
   const deviceToken = await enroll();
-  const adminSession = (await signIn(app, 'admin', testPassword, deviceToken)).json() as { token: string };
+  const adminSession = (await signIn(app, adminUsername, testPassword, deviceToken)).json() as { token: string };
   const admin = clinicianOf(app, adminUser, adminSession.token, deviceToken);
   let counter = 0;
 
@@ -83,7 +84,7 @@ export async function openTestApp(options: { store?: Store; settings?: Partial<S
     enrollDevice: enroll,
     async clinician(role, extra = {}) {
       counter += 1;
-      const username = extra.username ?? `${role}-${counter}`;
+      const username = extra.username ?? `${adminUsername}-${role}-${counter}`;
       const created = await admin.post('/api/users', { username, name: `Clinician ${counter}`, role, password: testPassword });
       if (created.statusCode !== 200) throw new Error(`account not created: ${created.body}`);
       const tablet = extra.deviceToken ?? deviceToken;
