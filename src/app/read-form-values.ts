@@ -51,6 +51,9 @@ export function fieldLabel(field: string): string {
     reasonText: 'Reason details',
     rhythmLabel: 'Rhythm',
     notes: 'Notes',
+    rhythmText: 'Rhythm in words',
+    ectopy: 'Ectopy',
+    avBlockNoted: 'AV block noted',
   };
   return labels[field] ?? field;
 }

@@ -5,7 +5,7 @@ import type { AmendableFields, Amendment, Change, Stay, Unit } from '../core/rec
 import { amendmentSchema } from '../core/records.ts';
 import type { RhythmDb, StoredAmendment } from './db.ts';
 import { previousFiguresBefore } from './derive-stay-reads.ts';
-import { outboxEntry } from './outbox-entry.ts';
+import { enqueueChange } from './outbox-entry.ts';
 import type { Author } from './sign-read.ts';
 import { withStorageFullCheck } from './storage-full.ts';
 import { unitPolicyOf } from './unit-policy-of.ts';
@@ -74,7 +74,7 @@ export async function amendRead(db: RhythmDb, input: AmendReadInput): Promise<St
       const change: Change = { changeId: uuidV7(input.nowMs), kind: 'amendment.add', deviceTimeMs: input.nowMs, record: amendment };
       await db.amendments.add(stored);
       await db.reads.update(read.id, { analysis: derived.value });
-      await db.outbox.add(outboxEntry(change, input.nowMs));
+      await enqueueChange(db, change, input.nowMs);
       return stored;
     }),
   );

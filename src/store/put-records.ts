@@ -3,7 +3,7 @@ import { fieldErrorsFromZod } from '../core/read-input.ts';
 import type { Bed, Change, Stay, Unit } from '../core/records.ts';
 import { bedSchema, staySchema, unitSchema } from '../core/records.ts';
 import type { RhythmDb } from './db.ts';
-import { outboxEntry } from './outbox-entry.ts';
+import { enqueueChange } from './outbox-entry.ts';
 import { uuidV7 } from './uuid-v7.ts';
 
 /** Validates a unit, naming each bad field. */
@@ -30,23 +30,23 @@ export function checkedStay(stay: Stay): Stay {
   return parsed.data;
 }
 
-/** Writes a unit and its outbox change; call inside a transaction over units and outbox. */
+/** Writes a unit and queues its outbox change; call inside a transaction over units and outbox. */
 export async function putUnitWithChange(db: RhythmDb, unit: Unit, nowMs: number): Promise<void> {
   const change: Change = { changeId: uuidV7(nowMs), kind: 'unit.put', deviceTimeMs: nowMs, record: unit };
   await db.units.put(unit);
-  await db.outbox.add(outboxEntry(change, nowMs));
+  await enqueueChange(db, change, nowMs);
 }
 
 /** Writes a bed and its outbox change; call inside a transaction over beds and outbox. */
 export async function putBedWithChange(db: RhythmDb, bed: Bed, nowMs: number): Promise<void> {
   const change: Change = { changeId: uuidV7(nowMs), kind: 'bed.put', deviceTimeMs: nowMs, record: bed };
   await db.beds.put(bed);
-  await db.outbox.add(outboxEntry(change, nowMs));
+  await enqueueChange(db, change, nowMs);
 }
 
 /** Writes a stay and its outbox change; call inside a transaction over stays and outbox. */
 export async function putStayWithChange(db: RhythmDb, stay: Stay, nowMs: number): Promise<void> {
   const change: Change = { changeId: uuidV7(nowMs), kind: 'stay.put', deviceTimeMs: nowMs, record: stay };
   await db.stays.put(stay);
-  await db.outbox.add(outboxEntry(change, nowMs));
+  await enqueueChange(db, change, nowMs);
 }

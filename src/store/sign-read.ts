@@ -6,7 +6,7 @@ import type { Change, ReadCounts, ReadReason, SignedRead, Stay, Unit } from '../
 import { signedReadSchema } from '../core/records.ts';
 import type { RhythmDb, StoredRead } from './db.ts';
 import { previousFiguresBefore } from './derive-stay-reads.ts';
-import { outboxEntry } from './outbox-entry.ts';
+import { enqueueChange } from './outbox-entry.ts';
 import { withStorageFullCheck } from './storage-full.ts';
 import { unitPolicyOf } from './unit-policy-of.ts';
 import { uuidV7 } from './uuid-v7.ts';
@@ -93,7 +93,7 @@ export async function signRead(db: RhythmDb, input: SignReadInput): Promise<Stor
       const stored: StoredRead = { ...read, analysis, syncStatus: 'pending' };
       const change: Change = { changeId: uuidV7(input.nowMs), kind: 'read.sign', deviceTimeMs: input.nowMs, record: read };
       await db.reads.add(stored);
-      await db.outbox.add(outboxEntry(change, input.nowMs));
+      await enqueueChange(db, change, input.nowMs);
       if (input.draftId) await db.drafts.delete(input.draftId);
       return stored;
     }),

@@ -4,6 +4,7 @@ import { bedSchema, signedReadSchema, staySchema, unitSchema } from '../../src/c
 import { buildDemoWard } from '../../src/store/demo-ward.ts';
 import { deriveStayReads } from '../../src/store/derive-stay-reads.ts';
 import { loadDemoWard } from '../../src/store/load-demo-ward.ts';
+import { signRead } from '../../src/store/sign-read.ts';
 import { unitPolicyOf } from '../../src/store/unit-policy-of.ts';
 import { newTestDb } from './fixtures.ts';
 
@@ -69,5 +70,17 @@ describe('the demo ward', () => {
     expect((await db.reads.toArray()).every((r) => r.analysis !== null)).toBe(true);
     expect((await db.settings.get('demoWard'))?.value).toBe(true);
     expect((await db.clinicians.count())).toBe(3);
+  });
+
+  it('keeps reads signed on the demo ward off the outbox, so invented patients never reach a unit server', async () => {
+    const db = newTestDb();
+    await loadDemoWard(db, nowMs, 1_000);
+    const stay = ward.stays[0]!;
+    const read = await signRead(db, {
+      unit: ward.unit, stay, stripTimeMs: nowMs, counts: { paperSpeedMmPerS: 25, gainMmPerMv: 10, rrSmallBoxes: [20], ppSmallBoxes: [], avBlockNoted: false },
+      reason: 'routine', author: { id: 'demo-clin-ash', name: 'Ash R. (demo nurse)' }, deviceId: 'demo-tablet', enteredAtMs: nowMs, nowMs,
+    });
+    expect(await db.reads.get(read.id)).toBeDefined();
+    expect(await db.outbox.count()).toBe(0);
   });
 });

@@ -1,6 +1,6 @@
 import { roundForDisplay } from '../../core/display-rounding.ts';
 import type { TrendSeries } from '../trend-series.ts';
-import { clockText } from '../time-text.ts';
+import { dayClockText } from '../time-text.ts';
 
 const width = 560;
 const height = 150;
@@ -45,10 +45,10 @@ export function TrendPlot({ series, timeZone, fromMs, toMs }: { series: TrendSer
           {roundForDisplay(yMin)}
         </text>
         <text x={pad.left} y={height - 6} class="trend-axis">
-          {clockText(fromMs, timeZone)}
+          {dayClockText(fromMs, timeZone)}
         </text>
         <text x={width - pad.right} y={height - 6} class="trend-axis" text-anchor="end">
-          {clockText(toMs, timeZone)}
+          {dayClockText(toMs, timeZone)}
         </text>
         {path ? <path d={path} class="trend-line" /> : null}
         {series.points.map((p) => (
