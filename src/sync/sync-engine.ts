@@ -147,8 +147,10 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
     set({ ...found, signedIn: session !== null, lastSyncedAtMs: lastSyncedAtMs ?? state.lastSyncedAtMs, online: isOnline() });
   };
 
-  const run = async (): Promise<SyncRunResult> => {
-    set({ running: true });
+  /** One push and pull; says when the next run is due (null: only when someone signs in again). */
+  const run = async (): Promise<{ result: SyncRunResult; nextDelayMs: number | null }> => {
+    set({ running: true, nextRetryAtMs: null });
+    let outcome: { result: SyncRunResult; nextDelayMs: number | null };
     try {
       const credentials = await credentialsOf(db);
       const session = await currentSession(db);
@@ -158,35 +160,38 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       const pulled = await pullChanges(db, connection, credentials, session.user.unitId);
       const syncedAtMs = now();
       await writeSyncSetting(db, lastSyncedKey, syncedAtMs);
-      set({ lastSyncedAtMs: syncedAtMs, lastError: null, lastErrorKind: null, failuresInRow: 0, signedIn: true, nextRetryAtMs: null });
-      await refresh().catch(() => undefined);
-      // Changes saved while this run was sending go out soon; otherwise check again on the interval.
-      schedule(state.pendingCount > 0 ? soonDelayMs : intervalMs);
-      return { ok: true, pushed, pulled };
+      set({ lastSyncedAtMs: syncedAtMs, lastError: null, lastErrorKind: null, failuresInRow: 0, signedIn: true });
+      outcome = { result: { ok: true, pushed, pulled }, nextDelayMs: intervalMs };
     } catch (thrown) {
       const error = thrown instanceof SyncError ? thrown : new SyncError('server', 'Sync stopped on an unexpected problem on the tablet; it will try again. Nothing was lost.', { cause: thrown });
       if (error.kind === 'signed-out') {
         // The session has ended: stop trying (every try would fail the same way) and keep
         // everything waiting until a nurse signs in again.
-        await dropSession(db);
-        cancelTimer();
-        set({ signedIn: false, lastError: error.message, lastErrorKind: error.kind, nextRetryAtMs: null });
+        await dropSession(db).catch(() => undefined);
+        set({ signedIn: false, lastError: error.message, lastErrorKind: error.kind });
+        outcome = { result: { ok: false, error }, nextDelayMs: null };
       } else {
         const failuresInRow = state.failuresInRow + 1;
         set({ lastError: error.message, lastErrorKind: error.kind, failuresInRow });
-        schedule(backoffDelayMs(failuresInRow, random, backoff));
+        outcome = { result: { ok: false, error }, nextDelayMs: backoffDelayMs(failuresInRow, random, backoff) };
       }
-      return { ok: false, error };
-    } finally {
-      await refresh().catch(() => undefined);
-      set({ running: false });
     }
+    await refresh().catch(() => undefined);
+    // Changes saved while a successful run was sending go out soon rather than on the interval.
+    if (outcome.result.ok && state.pendingCount > 0) outcome.nextDelayMs = soonDelayMs;
+    set({ running: false });
+    return outcome;
   };
 
   const syncNow = (): Promise<SyncRunResult> => {
     if (!inFlight) {
-      inFlight = run().finally(() => {
+      inFlight = run().then(({ result, nextDelayMs }) => {
+        // The next run is planned only once this one is over, so its timer can never fire into
+        // (and be absorbed by) the run that planned it.
         inFlight = null;
+        if (nextDelayMs === null) cancelTimer();
+        else schedule(nextDelayMs);
+        return result;
       });
     }
     return inFlight;

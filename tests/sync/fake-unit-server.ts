@@ -60,6 +60,8 @@ export class FakeUnitServer {
   readonly answers = new Map<string, Answer>();
   readonly sessions = new Map<string, User>();
   readonly users: User[] = [];
+  /** Every call that reached the server, signed in or not. */
+  requests = 0;
   pushRequests = 0;
   pullRequests = 0;
   /** Changes per push the fake has seen, in order. */
@@ -213,6 +215,7 @@ export class FakeUnitServer {
 
   /** The server as the tablet's fetch; network failures are thrown like the browser's TypeError. */
   readonly fetch: SyncFetch = async (rawUrl, init) => {
+    this.requests += 1;
     const url = new URL(rawUrl, 'http://unit.test');
     const body = init.body === undefined ? undefined : JSON.parse(init.body);
     const reply = (status: number, payload: unknown) => ({ status, json: async () => payload });

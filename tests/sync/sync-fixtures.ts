@@ -6,6 +6,7 @@ import type { OutboxRow, StoredRead } from '../../src/store/db.ts';
 import { outboxEntry } from '../../src/store/outbox-entry.ts';
 import { uuidV7 } from '../../src/store/uuid-v7.ts';
 import type { ServerConnection } from '../../src/sync/server-call.ts';
+import type { SyncEngine, SyncEngineOptions } from '../../src/sync/sync-engine.ts';
 import { deviceKey, sessionKey, writeSyncSetting } from '../../src/sync/sync-settings.ts';
 import type { FakeUnitServer } from './fake-unit-server.ts';
 
@@ -126,6 +127,11 @@ export class ManualClock {
     return this.timers.length;
   }
 
+  /** When the next timer falls due, or null when none is set. */
+  nextTimerAtMs(): number | null {
+    return this.timers.length === 0 ? null : Math.min(...this.timers.map((t) => t.atMs));
+  }
+
   /** Moves time on, running each timer that falls due, in time order. */
   advance(ms: number): void {
     const until = this.nowMs + ms;
@@ -200,4 +206,22 @@ export async function pushThenPull(db: RhythmDb, server: FakeUnitServer, clock: 
   const connection = connectionTo(server, clock);
   await pushOutbox(db, connection, credentials);
   await pullChanges(db, connection, credentials, unit.id, limit);
+}
+
+/** A sync engine for a tablet against a fake server on a manual clock; no live query or window events unless asked. */
+export async function engineFor(db: RhythmDb, server: FakeUnitServer, clock: ManualClock, options: Partial<SyncEngineOptions> = {}): Promise<SyncEngine> {
+  const { createSyncEngine } = await import('../../src/sync/sync-engine.ts');
+  return createSyncEngine({
+    db,
+    fetch: server.fetch,
+    baseUrl: 'http://unit.test',
+    now: clock.now,
+    random: () => 0.5,
+    setTimeout: clock.setTimeout,
+    clearTimeout: clock.clearTimeout,
+    events: null,
+    isOnline: () => true,
+    watchOutbox: false,
+    ...options,
+  });
 }
