@@ -53,6 +53,8 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
 
   // Fastify's own logger stays off: it would print URLs and errors that may quote data.
   const app = Fastify({ logger: false, bodyLimit: bodyLimitBytes, trustProxy: settings.trustProxy });
+  // JSON only: a text body is refused with 415 rather than reaching a route as a string.
+  app.removeContentTypeParser('text/plain');
   const apiRoutes: ApiRoute[] = [];
   app.decorate('apiRoutes', apiRoutes);
   app.addHook('onRoute', (route) => {
