@@ -1,5 +1,6 @@
 import { cpus } from 'node:os';
 import * as coreBench from './core-bench.ts';
+import * as handoverBench from './handover-bench.ts';
 
 /** A bench module prints its own figures, each against a baseline measured in the same run. */
 interface BenchModule {
@@ -8,7 +9,10 @@ interface BenchModule {
 }
 
 // Add each new bench module to this list (import it above); it exports `async function run(): Promise<void>`.
-const benchModules: BenchModule[] = [{ name: 'core', run: coreBench.run }];
+const benchModules: BenchModule[] = [
+  { name: 'core', run: coreBench.run },
+  { name: 'handover', run: handoverBench.run },
+];
 
 // `npm run bench -- core` runs only the named modules.
 const wanted = process.argv.slice(2);
