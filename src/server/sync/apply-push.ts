@@ -39,7 +39,8 @@ function parseChange(raw: unknown): { change: Change } | { errors: FieldError[] 
 
 async function outcomeOf(ctx: PushContext, change: Change): Promise<ChangeOutcome> {
   if (unitIdOf(change) !== ctx.tx.unitId) {
-    return refuse(`${kindWords[change.kind]} belongs to another unit.`, [{ field: change.kind === 'unit.put' ? 'record.id' : 'record.unitId', message: 'must be the unit you are signed in to' }]);
+    const field = change.kind === 'unit.put' ? 'record.id' : 'record.unitId';
+    return refuse(`${kindWords[change.kind]} belongs to another unit.`, [{ field, message: `${field}: must be the unit you are signed in to` }]);
   }
   switch (change.kind) {
     case 'unit.put':
