@@ -15,6 +15,10 @@ export interface PushSummary {
   batches: number;
   accepted: number;
   rejected: number;
+  /** Refused for now only (what they need has not reached the server); they stay waiting and go again. */
+  deferred: number;
+  /** The server's words for the first deferred change, for the status line. */
+  deferredReason: string | null;
 }
 
 /** The sentence shown beside a refused change: the server's reason, else its field messages, never empty. */
@@ -49,8 +53,8 @@ export async function waitingRows(db: RhythmDb, limit: number): Promise<OutboxRo
   return rows.sort((a, b) => (a.seq ?? 0) - (b.seq ?? 0)).slice(0, limit);
 }
 
-async function setRecordStatus(db: RhythmDb, change: Change, answer: { status: 'accepted' } | { status: 'rejected'; reason: string }): Promise<void> {
-  const patch = answer.status === 'accepted' ? { syncStatus: 'accepted' as const, rejectReason: undefined } : { syncStatus: 'rejected' as const, rejectReason: answer.reason };
+async function setRecordStatus(db: RhythmDb, change: Change, answer: { status: 'accepted' } | { status: 'rejected' | 'pending'; reason: string }): Promise<void> {
+  const patch = answer.status === 'accepted' ? { syncStatus: 'accepted' as const, rejectReason: undefined } : { syncStatus: answer.status, rejectReason: answer.reason };
   if (change.kind === 'read.sign') await db.reads.update(change.record.id, patch);
   else if (change.kind === 'amendment.add') await db.amendments.update(change.record.id, patch);
   else if (change.kind === 'handover.put') await db.handovers.update(change.record.id, patch);
@@ -81,6 +85,13 @@ async function applyAnswers(db: RhythmDb, rows: readonly OutboxRow[], results: r
         await db.outbox.update(row.seq!, { status: 'accepted', attempts, rejectReason: undefined });
         await setRecordStatus(db, row.change, { status: 'accepted' });
         summary.accepted += 1;
+      } else if (result.retryable) {
+        // Not refused for good: the row keeps waiting and goes again; the reason shows why it waits.
+        const reason = rejectReasonOf(result);
+        await db.outbox.update(row.seq!, { status: 'pending', attempts, rejectReason: reason });
+        await setRecordStatus(db, row.change, { status: 'pending', reason });
+        summary.deferred += 1;
+        summary.deferredReason ??= reason;
       } else {
         const reason = rejectReasonOf(result);
         await db.outbox.update(row.seq!, { status: 'rejected', attempts, rejectReason: reason });
@@ -96,7 +107,7 @@ async function applyAnswers(db: RhythmDb, rows: readonly OutboxRow[], results: r
           if (!known || known.seq <= seq) await writeSyncSetting(db, key, { seq, record: row.change.record } satisfies ServerVersion);
         }
         // Rows are in order, so the last answer for a record decides what it settles to.
-        touched.set(key, { kind: row.kind, id: row.change.record.id, refused: result.status === 'rejected' });
+        touched.set(key, { kind: row.kind, id: row.change.record.id, refused: result.status === 'rejected' && !result.retryable });
       }
     }
     for (const { kind, id, refused } of touched.values()) await settleRecord(db, kind, id, refused);
@@ -114,13 +125,15 @@ async function countAttempt(db: RhythmDb, rows: readonly OutboxRow[]): Promise<v
 
 /**
  * Sends every waiting outbox row in order, in batches of at most 200, and records each answer.
+ * A change refused only for now (the server says it may pass later) stays waiting with the reason
+ * and is sent again on a later run, never twice in one push.
  * A failed call leaves its rows waiting (one more attempt counted, except when the session has
  * ended, which is not the rows' fault) and stops the push; rows are never deleted, and a refused
  * change stays with its reason where the nurse sees it.
  */
 export async function pushOutbox(db: RhythmDb, connection: ServerConnection, credentials: CallCredentials, batchSize: number = maxChangesPerPush): Promise<PushSummary> {
   const size = Math.max(1, Math.min(batchSize, maxChangesPerPush));
-  const summary: PushSummary = { batches: 0, accepted: 0, rejected: 0 };
+  const summary: PushSummary = { batches: 0, accepted: 0, rejected: 0, deferred: 0, deferredReason: null };
   const sentSeqs = new Set<number>();
   for (;;) {
     // A row answered in this push is never sent twice in it, even if a retry raced its answer.

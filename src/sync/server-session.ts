@@ -62,8 +62,8 @@ export async function signIn(db: RhythmDb, connection: ServerConnection, input: 
 /** Enrols this tablet with the unit (a unit admin's session is needed) and keeps its device token. */
 export async function enrollDevice(db: RhythmDb, connection: ServerConnection, label: string): Promise<EnrollResponse> {
   const trimmed = label.trim();
-  if (trimmed.length < 2 || trimmed.length > 80) {
-    throw new SyncError('refused', 'label: name the tablet so the unit admin can tell it apart (2 to 80 characters).', { errors: [{ field: 'label', message: 'label: 2 to 80 characters', min: 2, max: 80 }] });
+  if (trimmed.length < 2 || trimmed.length > 60) {
+    throw new SyncError('refused', 'label: name the tablet so the unit admin can tell it apart (2 to 60 characters).', { errors: [{ field: 'label', message: 'label: 2 to 60 characters', min: 2, max: 60 }] });
   }
   const credentials = await credentialsOf(db);
   if (!credentials) throw new SyncError('signed-out', 'Sign in to the unit server as a unit admin to enrol this tablet.');

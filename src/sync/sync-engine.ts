@@ -160,8 +160,17 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       const pulled = await pullChanges(db, connection, credentials, session.user.unitId);
       const syncedAtMs = now();
       await writeSyncSetting(db, lastSyncedKey, syncedAtMs);
-      set({ lastSyncedAtMs: syncedAtMs, lastError: null, lastErrorKind: null, failuresInRow: 0, signedIn: true });
-      outcome = { result: { ok: true, pushed, pulled }, nextDelayMs: intervalMs };
+      if (pushed.deferred > 0) {
+        // Some changes wait for others to reach the server first: sent again with backoff, so a
+        // change that can never pass (its author never signs in here) does not keep the radio busy.
+        const failuresInRow = state.failuresInRow + 1;
+        const what = pushed.deferred === 1 ? '1 change waits' : `${pushed.deferred} changes wait`;
+        set({ lastSyncedAtMs: syncedAtMs, lastError: `${what}: ${pushed.deferredReason ?? 'the unit server needs earlier changes first'}`, lastErrorKind: 'not-yet', failuresInRow, signedIn: true });
+        outcome = { result: { ok: true, pushed, pulled }, nextDelayMs: backoffDelayMs(failuresInRow, random, backoff) };
+      } else {
+        set({ lastSyncedAtMs: syncedAtMs, lastError: null, lastErrorKind: null, failuresInRow: 0, signedIn: true });
+        outcome = { result: { ok: true, pushed, pulled }, nextDelayMs: intervalMs };
+      }
     } catch (thrown) {
       const error = thrown instanceof SyncError ? thrown : new SyncError('server', 'Sync stopped on an unexpected problem on the tablet; it will try again. Nothing was lost.', { cause: thrown });
       if (error.kind === 'signed-out') {
@@ -173,12 +182,13 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       } else {
         const failuresInRow = state.failuresInRow + 1;
         set({ lastError: error.message, lastErrorKind: error.kind, failuresInRow });
-        outcome = { result: { ok: false, error }, nextDelayMs: backoffDelayMs(failuresInRow, random, backoff) };
+        // A refusal of this tablet or account (403) will not pass by itself: it waits for a sign-in.
+        outcome = { result: { ok: false, error }, nextDelayMs: error.retryable ? backoffDelayMs(failuresInRow, random, backoff) : null };
       }
     }
     await refresh().catch(() => undefined);
     // Changes saved while a successful run was sending go out soon rather than on the interval.
-    if (outcome.result.ok && state.pendingCount > 0) outcome.nextDelayMs = soonDelayMs;
+    if (outcome.result.ok && state.lastError === null && state.pendingCount > 0) outcome.nextDelayMs = soonDelayMs;
     set({ running: false });
     return outcome;
   };

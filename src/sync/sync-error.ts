@@ -1,9 +1,9 @@
 import type { FieldError } from '../core/field-error.ts';
 
 /** Why a call to the unit server failed, in categories the engine acts on. */
-export type SyncErrorKind = 'unreachable' | 'timeout' | 'signed-out' | 'not-allowed' | 'rate-limited' | 'server' | 'refused' | 'malformed';
+export type SyncErrorKind = 'unreachable' | 'timeout' | 'signed-out' | 'not-allowed' | 'rate-limited' | 'server' | 'refused' | 'malformed' | 'not-yet';
 
-const retryableKinds: ReadonlySet<SyncErrorKind> = new Set(['unreachable', 'timeout', 'rate-limited', 'server', 'malformed', 'refused']);
+const retryableKinds: ReadonlySet<SyncErrorKind> = new Set(['unreachable', 'timeout', 'rate-limited', 'server', 'malformed', 'refused', 'not-yet']);
 
 /**
  * A failed call to the unit server. Thrown deep in the sync steps and turned into the status line

@@ -36,6 +36,8 @@ export const pushResultSchema = z.object({
   seq: seqSchema.optional(),
   reason: z.string().optional(),
   errors: z.array(fieldErrorSchema).optional(),
+  /** On a refusal: the change may pass later (what it needs has not reached the server yet), so it is sent again. */
+  retryable: z.boolean().optional(),
 });
 export type PushResult = z.infer<typeof pushResultSchema> & { errors?: FieldError[] };
 
@@ -84,7 +86,9 @@ export type PulledChange = ParsedPulledChange extends infer C
 /** Answer of `GET /api/sync/pull`. */
 export const pullResponseSchema = z.object({
   changes: z.array(pulledChangeSchema),
-  cursor: z.union([z.number().int().nonnegative(), z.string().max(200)]),
+  // A cursor of digits is a seq, whether the server writes it as a number or as text; keeping it a
+  // number lets the tablet check it never moves past the changes it received.
+  cursor: z.union([z.number().int().nonnegative(), z.string().max(200)]).transform((c) => (typeof c === 'string' && /^\d{1,15}$/.test(c) ? Number(c) : c)),
   hasMore: z.boolean(),
 });
 export interface PullResponse {

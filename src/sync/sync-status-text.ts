@@ -22,6 +22,7 @@ const shortReason: Record<SyncErrorKind, string> = {
   server: 'the unit server has a problem',
   refused: 'the unit server refused the request',
   malformed: "the unit server's answer was not understood",
+  'not-yet': 'some wait for earlier changes to reach the unit server',
 };
 
 const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;

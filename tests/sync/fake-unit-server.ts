@@ -13,6 +13,7 @@ interface Answer {
   seq?: number;
   reason?: string;
   errors?: Array<{ field: string; message: string }>;
+  retryable?: boolean;
 }
 
 /** One change in the fake unit's log. */
@@ -72,7 +73,8 @@ export class FakeUnitServer {
   /** Changes whose commit waits for `releaseCommits()`, as a test of late commits. */
   holdCommitWhen: ((change: Change) => boolean) | null = null;
   private readonly heldCommits: Array<() => void> = [];
-  rejectWhen: ((change: Change) => string | null) | null = null;
+  /** Refuses a change: for good (a reason), or for now only ({ reason, retryable: true }), which is not remembered. */
+  rejectWhen: ((change: Change) => string | { reason: string; retryable: true } | null) | null = null;
   private tokenCount = 0;
 
   constructor(serverNowMs: number, readonly unitId: string) {
@@ -145,11 +147,12 @@ export class FakeUnitServer {
     if (!parsed.success) return { changeId, status: 'rejected', reason: 'The change did not pass the unit server checks.', errors: fieldErrorsFromZod(parsed.error) };
     const change = parsed.data;
     const refusal = this.rejectWhen?.(change) ?? null;
-    if (refusal) {
+    if (typeof refusal === 'string') {
       const answer: Answer = { changeId: change.changeId, status: 'rejected', reason: refusal };
       this.answers.set(change.changeId, answer);
       return answer;
     }
+    if (refusal) return { changeId: change.changeId, status: 'rejected', reason: refusal.reason, retryable: true };
     if (change.kind === 'read.sign' && this.reads.has(change.record.id)) {
       // A read is immutable: the same read under a new change id is already here.
       const answer: Answer = { changeId: change.changeId, status: 'accepted', seq: this.log.find((l) => l.record.id === change.record.id)!.seq };

@@ -17,7 +17,7 @@ describe('pushOutbox', () => {
     const { server, db, connection, credentials } = await setUp();
     await bulkSignReads(db, 450, t0);
     const summary = await pushOutbox(db, connection, credentials);
-    expect(summary).toEqual({ batches: 3, accepted: 450, rejected: 0 });
+    expect(summary).toEqual({ batches: 3, accepted: 450, rejected: 0, deferred: 0, deferredReason: null });
     expect(server.batchSizes).toEqual([200, 200, 50]);
     expect(server.reads.size).toBe(450);
     expect(await readCounts(db)).toEqual({ all: 450, accepted: 450, pending: 0, rejected: 0 });
@@ -41,7 +41,7 @@ describe('pushOutbox', () => {
     const third = await signReadAt(db, t0 + 120_000);
     server.rejectWhen = (change) => (change.kind === 'read.sign' && change.record.notes === 'refuse me' ? 'This monitoring ended before the strip time; check the bed.' : null);
     const summary = await pushOutbox(db, connection, credentials);
-    expect(summary).toEqual({ batches: 1, accepted: 2, rejected: 1 });
+    expect(summary).toEqual({ batches: 1, accepted: 2, rejected: 1, deferred: 0, deferredReason: null });
     expect((await db.reads.get(first.id))?.syncStatus).toBe('accepted');
     expect((await db.reads.get(third.id))?.syncStatus).toBe('accepted');
     const stored = await db.reads.get(refused.id);
@@ -53,6 +53,22 @@ describe('pushOutbox', () => {
     expect(server.pushRequests).toBe(1);
     expect(await readCounts(db)).toEqual({ all: 3, accepted: 2, pending: 0, rejected: 1 });
     expect(server.reads.size).toBe(2);
+  });
+
+  it('keeps a change refused only for now waiting, with the reason beside it, and sends it again later', async () => {
+    const { server, db, connection, credentials } = await setUp();
+    const read = await signReadAt(db, t0);
+    const reason = 'This was entered by Bay Invented, who has not signed in online on this tablet; it will be sent when they sign in here.';
+    server.rejectWhen = () => ({ reason, retryable: true });
+    expect(await pushOutbox(db, connection, credentials)).toEqual({ batches: 1, accepted: 0, rejected: 0, deferred: 1, deferredReason: reason });
+    expect(await db.reads.get(read.id)).toMatchObject({ syncStatus: 'pending', rejectReason: reason });
+    expect((await db.outbox.toArray())[0]).toMatchObject({ status: 'pending', attempts: 1, rejectReason: reason });
+    server.rejectWhen = null;
+    expect(await pushOutbox(db, connection, credentials)).toMatchObject({ accepted: 1, deferred: 0 });
+    const stored = await db.reads.get(read.id);
+    expect(stored?.syncStatus).toBe('accepted');
+    expect(stored?.rejectReason).toBeUndefined();
+    expect(server.reads.size).toBe(1);
   });
 
   it('leaves every row waiting with one more attempt when the server answers 503', async () => {
@@ -135,7 +151,7 @@ describe('pushOutbox', () => {
 
   it('sends nothing when nothing waits', async () => {
     const { server, db, connection, credentials } = await setUp();
-    expect(await pushOutbox(db, connection, credentials)).toEqual({ batches: 0, accepted: 0, rejected: 0 });
+    expect(await pushOutbox(db, connection, credentials)).toEqual({ batches: 0, accepted: 0, rejected: 0, deferred: 0, deferredReason: null });
     expect(server.pushRequests).toBe(0);
   });
 });

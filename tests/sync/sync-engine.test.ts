@@ -143,6 +143,27 @@ describe('sync engine', () => {
     expect(syncStatusText(engine.getState(), clock.nowMs, 'Europe/London')).toMatchObject({ line: '1 read refused by the server — open it to see why · last synced 08:00', tone: 'problem' });
   });
 
+  it('backs off, rather than resending every few seconds, while the server defers a change', async () => {
+    const { server, clock, db } = await setUp();
+    await signReadAt(db, t0);
+    server.rejectWhen = () => ({ reason: 'The patient stay this read belongs to has not reached the server yet.', retryable: true });
+    const engine = await engineFor(db, server, clock, { random: () => 0.5 });
+    engine.start();
+    await vi.waitFor(() => expect(engine.getState()).toMatchObject({ failuresInRow: 1, running: false }));
+    expect(engine.getState()).toMatchObject({ lastErrorKind: 'not-yet', pendingCount: 1, lastSyncedAtMs: t0 });
+    expect(syncStatusText(engine.getState(), clock.nowMs, 'Europe/London').line).toBe('1 waiting to send — some wait for earlier changes to reach the unit server, retrying in 1 s');
+    clock.advance(clock.nextTimerAtMs()! - clock.nowMs);
+    await engine.syncNow();
+    // Ceiling 4 s after the second deferral, at 0.5: 2 s.
+    expect(clock.nextTimerAtMs()! - clock.nowMs).toBe(2_000);
+    server.rejectWhen = null;
+    clock.advance(2_000);
+    await engine.syncNow();
+    expect(engine.getState()).toMatchObject({ failuresInRow: 0, lastError: null, pendingCount: 0 });
+    expect(server.reads.size).toBe(1);
+    engine.stop();
+  });
+
   it('sends a newly saved read soon after it is saved, by watching the outbox', async () => {
     const { server, clock, db } = await setUp();
     const engine = await engineFor(db, server, clock, { watchOutbox: true, soonDelayMs: 1_500 });
