@@ -44,15 +44,16 @@ export function startServiceWorker(): void {
   void workbox.register().then(() => {
     setInterval(() => void workbox?.update(), updateCheckIntervalMs);
   });
-  onOpenReadFormChange(() => {
-    // The read was signed (or left, its draft saved): the deferred update can go now.
-    if (state === 'after-signing' && openReadForm() === null) void applyUpdate();
-  });
 }
+
+// The read was signed (or left, its draft saved): an update the nurse deferred can go now.
+onOpenReadFormChange(() => {
+  if (state === 'after-signing' && openReadForm() === null) void applyUpdate();
+});
 
 /** Applies the waiting version after saving any open draft; refused while a read is being typed. */
 export async function applyUpdate(): Promise<'applying' | 'refused-typing' | 'nothing-waiting'> {
-  if (state === 'none' || !workbox) return 'nothing-waiting';
+  if (state === 'none' || state === 'applying' || !workbox) return 'nothing-waiting';
   if (openReadForm()?.hasTyping()) return 'refused-typing';
   await flushOpenReadForm();
   setState('applying');
@@ -66,8 +67,8 @@ export function applyAfterSigning(): void {
   if (state === 'ready') setState('after-signing');
 }
 
-/** For tests: pretends a new version is waiting, with a stand-in for the worker. */
-export function simulateWaitingUpdateForTest(fake: Pick<Workbox, 'addEventListener' | 'messageSkipWaiting'>): void {
-  workbox = fake as Workbox;
-  setState('ready');
+/** For tests: pretends a new version is waiting (or, with null, that none is), with a stand-in for the worker. */
+export function simulateWaitingUpdateForTest(fake: Pick<Workbox, 'addEventListener' | 'messageSkipWaiting'> | null): void {
+  workbox = fake as Workbox | null;
+  setState(fake ? 'ready' : 'none');
 }

@@ -1,31 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import type { DBCore, DBCoreMutateRequest } from 'dexie';
 import { loadDraft, saveDraft } from '../../src/store/drafts.ts';
-import type { RhythmDb } from '../../src/store/db.ts';
 import { draftIdFor } from '../../src/store/read-draft.ts';
 import { signRead } from '../../src/store/sign-read.ts';
 import { StorageFullError, isQuotaError } from '../../src/store/storage-full.ts';
+import { fillDisk } from './full-disk.ts';
 import { author, emptyForm, normalCounts, seededDb, stay, t0, unit } from './fixtures.ts';
-
-/** Makes every later write to the given tables fail as a full disk does, optionally wrapped in an AbortError. */
-async function fillDisk(db: RhythmDb, tables: string[], wrapped: boolean): Promise<void> {
-  const quota = new DOMException('The quota has been exceeded.', 'QuotaExceededError');
-  const failure = wrapped ? Object.assign(new DOMException('Transaction aborted', 'AbortError'), { inner: quota }) : quota;
-  // Middleware takes effect when the database opens, as on a tablet whose disk filled between sessions.
-  db.close();
-  db.use({
-    stack: 'dbcore',
-    name: 'full-disk',
-    create: (down: DBCore) => ({
-      ...down,
-      table: (name: string) => {
-        const table = down.table(name);
-        return tables.includes(name) ? { ...table, mutate: (_req: DBCoreMutateRequest) => Promise.reject(failure) } : table;
-      },
-    }),
-  });
-  await db.open();
-}
 
 const draftId = draftIdFor(author.id, stay.id);
 const draft = { id: draftId, authorId: author.id, stayId: stay.id, bedId: stay.bedId, unitId: unit.id, form: { ...emptyForm, qtSmallBoxes: '10' }, startedAtMs: t0, updatedAtMs: t0 };
