@@ -7,6 +7,7 @@ import { StorageFullError } from '../../store/storage-full.ts';
 import { useCharting } from '../app-context.ts';
 import { FiguresPanel } from '../components/FiguresPanel.tsx';
 import { FlagBanners } from '../components/FlagBanner.tsx';
+import { LiveSummaryBar } from '../components/LiveSummaryBar.tsx';
 import { ReadCountsFields } from '../components/ReadCountsFields.tsx';
 import { ReasonFields } from '../components/ReasonFields.tsx';
 import { RhythmFields } from '../components/RhythmFields.tsx';
@@ -112,6 +113,7 @@ export function NewRead({ bedId }: { bedId: string }) {
             {draft.status === 'saved' && draft.savedAtMs ? ` (${clockText(draft.savedAtMs, unit.timeZone)})` : ''}
           </p>
         </div>
+        <LiveSummaryBar analysis={live.analysis} />
         <fieldset class="form-block">
           <legend>Strip time (ward clock)</legend>
           <div class="inline-fields">
