@@ -1,0 +1,83 @@
+import { describe, expect, it } from 'vitest';
+import type { SyncState } from '../../src/sync/sync-engine.ts';
+import { syncStatusText, waitText } from '../../src/sync/sync-status-text.ts';
+import { t0 } from './sync-fixtures.ts';
+
+const idle: SyncState = {
+  lastSyncedAtMs: Date.UTC(2026, 2, 10, 14, 2),
+  pendingCount: 0,
+  rejectedCount: 0,
+  rejectedReadCount: 0,
+  lastError: null,
+  lastErrorKind: null,
+  running: false,
+  signedIn: true,
+  online: true,
+  nextRetryAtMs: null,
+  failuresInRow: 0,
+};
+const nowMs = Date.UTC(2026, 2, 10, 14, 30);
+const zone = 'Europe/London';
+
+describe('syncStatusText', () => {
+  it('says all is sent, with the last sync on the unit clock', () => {
+    expect(syncStatusText(idle, nowMs, zone)).toEqual({ line: 'All reads sent · last synced 14:02', text: 'All reads sent · last synced 14:02', retryText: null, tone: 'ok' });
+  });
+
+  it('shows the unit wall clock, not UTC: 14:02 UTC is 15:02 in Berlin', () => {
+    expect(syncStatusText(idle, nowMs, 'Europe/Berlin').line).toBe('All reads sent · last synced 15:02');
+  });
+
+  it('adds the date once the last sync is from an earlier day', () => {
+    expect(syncStatusText(idle, nowMs + 30 * 3_600_000, zone).line).toBe('All reads sent · last synced 2026-03-10 14:02');
+  });
+
+  it('counts what waits, why, and when the next try is: "3 waiting to send — offline, retrying in 30 s"', () => {
+    const state: SyncState = { ...idle, pendingCount: 3, lastError: 'This tablet is offline.', lastErrorKind: 'unreachable', nextRetryAtMs: nowMs + 30_000, failuresInRow: 4 };
+    expect(syncStatusText(state, nowMs, zone)).toEqual({ line: '3 waiting to send — offline, retrying in 30 s', text: '3 waiting to send — offline', retryText: 'retrying in 30 s', tone: 'waiting' });
+  });
+
+  it('puts refused reads first, since the nurse has to act on them', () => {
+    const state: SyncState = { ...idle, rejectedCount: 1, rejectedReadCount: 1, pendingCount: 2 };
+    expect(syncStatusText(state, nowMs, zone)).toMatchObject({ line: '1 read refused by the server — open it to see why · 2 waiting to send · last synced 14:02', tone: 'problem' });
+  });
+
+  it('says "changes" when what was refused is not only reads', () => {
+    const state: SyncState = { ...idle, rejectedCount: 2, rejectedReadCount: 1 };
+    expect(syncStatusText(state, nowMs, zone).line).toBe('2 changes refused by the server — open them to see why · last synced 14:02');
+  });
+
+  it('asks for sign-in when the session has ended, and does not promise a retry', () => {
+    const state: SyncState = { ...idle, signedIn: false, pendingCount: 4, lastError: 'sign in', lastErrorKind: 'signed-out', nextRetryAtMs: nowMs + 5_000 };
+    expect(syncStatusText(state, nowMs, zone)).toMatchObject({ line: '4 waiting to send — sign in to the unit server to send them', retryText: null, tone: 'waiting' });
+  });
+
+  it('says when nothing has ever been synced', () => {
+    expect(syncStatusText({ ...idle, lastSyncedAtMs: null, signedIn: false }, nowMs, zone).line).toBe('Not signed in to the unit server · not yet synced with the unit server');
+  });
+
+  it('says what it is doing while a run is under way', () => {
+    expect(syncStatusText({ ...idle, running: true, pendingCount: 5 }, nowMs, zone).line).toBe('Sending 5…');
+    expect(syncStatusText({ ...idle, running: true }, nowMs, zone).line).toBe('Checking the unit server for changes…');
+  });
+
+  it('reports a failed check even when nothing waits', () => {
+    const state: SyncState = { ...idle, lastError: 'slow', lastErrorKind: 'timeout', nextRetryAtMs: nowMs + 240_000 };
+    expect(syncStatusText(state, nowMs, zone).line).toBe('All reads sent · last synced 14:02 — the unit server is slow to answer, retrying in 4 min');
+  });
+});
+
+describe('waitText', () => {
+  it('rounds up to whole seconds under 90 s, then to minutes', () => {
+    expect(waitText(t0 + 29_001, t0)).toBe('in 30 s');
+    expect(waitText(t0 + 89_000, t0)).toBe('in 89 s');
+    expect(waitText(t0 + 150_000, t0)).toBe('in 3 min');
+  });
+
+  describe('edge cases', () => {
+    it('says "now" for a time already passed or exactly now', () => {
+      expect(waitText(t0, t0)).toBe('now');
+      expect(waitText(t0 - 5_000, t0)).toBe('now');
+    });
+  });
+});
