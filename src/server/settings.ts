@@ -48,7 +48,7 @@ const folder = (name: string) => (raw: string | true): Parsed => (raw === true |
 
 /** The settings table: the README's "Settings" section lists exactly these. */
 export const settingDefinitions: SettingDefinition[] = [
-  { key: 'port', env: 'PORT', flag: '--port', defaultText: '8080', description: 'TCP port to listen on.', parse: wholeNumber('PORT', 1, 65535) },
+  { key: 'port', env: 'PORT', flag: '--port', defaultText: '8080', description: 'TCP port to listen on (0: any free port, printed at start).', parse: wholeNumber('PORT', 0, 65535) },
   { key: 'host', env: 'HOST', flag: '--host', defaultText: '127.0.0.1', description: 'Address to bind. Anything beyond loopback also needs ALLOW_REMOTE.', parse: text('HOST') },
   {
     key: 'allowRemote',

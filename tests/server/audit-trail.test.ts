@@ -1,4 +1,5 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import type { Unit } from '../../src/core/records.ts';
 import type { AuditEvent } from '../../src/server/storage/store.ts';
 import { baseTimeMs, changeOf, demoAmendment, demoBed, demoHandover, demoRead, demoStay } from './fixtures.ts';
 import { pullAll, push } from './sync-helpers.ts';
@@ -24,7 +25,7 @@ describe('audit trail', () => {
     await nurse.post('/api/audit/exports', { format: 'csv', scope: 'stay', recordId: stay.id, recordCount: 1, clientTimeMs: baseTimeMs + 70_000 });
     await signIn(t.app, 'nurse-a', 'wrong password here');
     const unitRecord = (await pullAll(t.admin)).changes[0]?.record;
-    await push(t.admin, [changeOf('unit.put', { ...(unitRecord as never), policyOverrides: [{ key: 'rateLowBpm', value: 50, changedBy: 'A. Admin', changedAtMs: baseTimeMs, reason: 'Unit protocol: 50 bpm' }] })]);
+    await push(t.admin, [changeOf('unit.put', { ...(unitRecord as unknown as Unit), policyOverrides: [{ key: 'rateLowBpm', value: 50, changedBy: 'A. Admin', changedAtMs: baseTimeMs, reason: 'Unit protocol: 50 bpm' }] })]);
   });
   afterEach(async () => {
     await t.close();

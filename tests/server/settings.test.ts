@@ -25,7 +25,7 @@ describe('settings', () => {
   it('names the setting and its allowed range for every bad value', () => {
     const result = readSettings({ PORT: '70000', LOG_LEVEL: 'loud', SESSION_MAX_HOURS: 'x', DATABASE_URL: 'mysql://x' }, ['--nonsense']);
     expect(!result.ok && result.errors).toEqual([
-      'PORT must be a whole number from 1 to 65535; got 70000',
+      'PORT must be a whole number from 0 to 65535; got 70000',
       'DATABASE_URL must start with postgres:// or postgresql://',
       'SESSION_MAX_HOURS must be a whole number from 1 to 720; got x',
       'LOG_LEVEL must be one of silent, error, warn, info, debug; got loud',

@@ -1,5 +1,5 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import type { Bed, Stay } from '../../src/core/records.ts';
+import type { Bed, Stay, Unit } from '../../src/core/records.ts';
 import { baseTimeMs, changeOf, demoAmendment, demoBed, demoHandover, demoRead, demoStay } from './fixtures.ts';
 import { pullAll, push, statusesOf } from './sync-helpers.ts';
 import type { Clinician, TestApp } from './test-app.ts';
@@ -107,8 +107,8 @@ describe('push', () => {
 
     it('derives with the unit policy in force: a unit QTc default of Bazett changes the figure used for flags', async () => {
       const unitRecord = (await pullAll(t.admin)).changes.find((c) => c.kind === 'unit.put')?.record;
-      const override = { key: 'defaultQtcFormula', value: 'bazett', changedBy: 'A. Admin', changedAtMs: baseTimeMs, reason: 'Unit protocol uses Bazett' };
-      const [policy] = await push(t.admin, [changeOf('unit.put', { ...(unitRecord as never), policyOverrides: [override] })]);
+      const override = { key: 'defaultQtcFormula' as const, value: 'bazett' as const, changedBy: 'A. Admin', changedAtMs: baseTimeMs, reason: 'Unit protocol uses Bazett' };
+      const [policy] = await push(t.admin, [changeOf('unit.put', { ...(unitRecord as unknown as Unit), policyOverrides: [override] })]);
       expect(policy?.status).toBe('accepted');
       await push(nurse, [changeOf('read.sign', demoRead(stay, nurse.user.id))]);
       const derived = (await pullAll(nurse)).changes.find((c) => c.kind === 'read.sign')?.derived;
@@ -235,7 +235,7 @@ describe('push', () => {
     });
 
     it('lets only a unit admin change the unit, and keeps earlier policy changes as history', async () => {
-      const unitRecord = (await pullAll(t.admin)).changes.find((c) => c.kind === 'unit.put')?.record as never as import('../../src/core/records.ts').Unit;
+      const unitRecord = (await pullAll(t.admin)).changes.find((c) => c.kind === 'unit.put')?.record as unknown as Unit;
       const [byNurse] = await push(nurse, [changeOf('unit.put', { ...unitRecord, readIntervalHours: 2 })]);
       expect(byNurse?.status).toBe('rejected');
       const change1 = { key: 'qtcHighRiskMs' as const, value: 480, changedBy: 'A. Admin', changedAtMs: baseTimeMs, reason: 'Unit protocol escalates at 480 ms' };
