@@ -230,9 +230,11 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         error: () => undefined,
       });
     }
-    void refresh().then(() => {
-      if (started && state.signedIn) void syncNow();
-    });
+    void refresh()
+      .catch(() => undefined)
+      .then(() => {
+        if (started && state.signedIn) void syncNow();
+      });
   };
 
   const stop = () => {

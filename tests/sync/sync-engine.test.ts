@@ -190,3 +190,24 @@ describe('sync engine', () => {
     expect(server.pushRequests + server.pullRequests).toBe(0);
   });
 });
+
+describe('browser wiring', () => {
+  it('reaches the page origin by default and calls the server through the window fetch', async () => {
+    const { browserConnection } = await import('../../src/sync/browser-sync-engine.ts');
+    const calls: string[] = [];
+    const original = globalThis.fetch;
+    globalThis.fetch = (async (url: string) => {
+      calls.push(url);
+      return new Response(JSON.stringify({ status: 'ok' }), { status: 200, headers: { 'content-type': 'application/json' } });
+    }) as typeof fetch;
+    try {
+      const { callServer } = await import('../../src/sync/server-call.ts');
+      const { healthResponseSchema } = await import('../../src/sync/sync-protocol.ts');
+      const answer = await callServer(browserConnection(), { method: 'GET', path: '/api/health', schema: healthResponseSchema });
+      expect(answer.status).toBe('ok');
+      expect(calls).toEqual(['/api/health']);
+    } finally {
+      globalThis.fetch = original;
+    }
+  });
+});

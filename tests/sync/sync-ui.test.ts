@@ -65,6 +65,7 @@ describe('ServerSignIn', () => {
     fireEvent.click(screen.getByRole('button', { name: 'Sign in' }));
     await screen.findByText('Choose a PIN for this tablet');
     expect((await currentSession(db))?.user.id).toBe(nurseAsh.id);
+    expect(screen.getByRole('note').textContent).toMatch(/not enrolled with the unit server yet/);
     fireEvent.input(screen.getByLabelText('PIN'), { target: { value: '4821' } });
     fireEvent.input(screen.getByLabelText('PIN again'), { target: { value: '4812' } });
     fireEvent.click(screen.getByRole('button', { name: 'Save PIN' }));
@@ -100,6 +101,7 @@ describe('ServerSignIn', () => {
     fireEvent.input(screen.getByLabelText('Tablet name'), { target: { value: 'Tablet 3, bay C' } });
     fireEvent.click(screen.getByRole('button', { name: 'Enrol tablet' }));
     await screen.findByText('Choose a PIN for this tablet');
+    expect(screen.queryByRole('note')).toBeNull();
     expect(await currentDevice(db)).toEqual({ deviceId: 'device-1', deviceToken: 'device-token-1' });
   });
 });

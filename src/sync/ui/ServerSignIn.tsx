@@ -16,7 +16,7 @@ export interface ServerSignInProps {
   pinIterations?: number;
 }
 
-type Step = { name: 'credentials' } | { name: 'enrol'; user: ServerUser } | { name: 'pin'; user: ServerUser };
+type Step = { name: 'credentials' } | { name: 'enrol'; user: ServerUser } | { name: 'pin'; user: ServerUser; enrolled: boolean };
 
 const messageOf = (error: unknown) => (error instanceof Error ? error.message : 'Something went wrong; try again.');
 
@@ -52,7 +52,7 @@ export function ServerSignIn({ db, connection, now = Date.now, onDone, pinIterat
       const answer = await signIn(db, connection, { username, password }, now());
       setPassword('');
       const enrolled = (await currentDevice(db)) !== null;
-      setStep(!enrolled && answer.user.role === 'unit-admin' ? { name: 'enrol', user: answer.user } : { name: 'pin', user: answer.user });
+      setStep(!enrolled && answer.user.role === 'unit-admin' ? { name: 'enrol', user: answer.user } : { name: 'pin', user: answer.user, enrolled });
     });
   };
 
@@ -60,7 +60,7 @@ export function ServerSignIn({ db, connection, now = Date.now, onDone, pinIterat
     event.preventDefault();
     void act(async () => {
       await enrollDevice(db, connection, label);
-      setStep({ name: 'pin', user });
+      setStep({ name: 'pin', user, enrolled: true });
     });
   };
 
@@ -103,6 +103,11 @@ export function ServerSignIn({ db, connection, now = Date.now, onDone, pinIterat
       <form class="server-sign-in" onSubmit={(e) => submitPin(e, user)}>
         <h2>Choose a PIN for this tablet</h2>
         <p>Signed in as {user.name}. With this PIN you can unlock this tablet when the network is down. 4 to 8 digits.</p>
+        {step.enrolled ? null : (
+          <p class="form-note" role="note">
+            This tablet is not enrolled with the unit server yet: reads are kept on it and sent once a unit admin signs in here and enrols it.
+          </p>
+        )}
         <label>
           PIN
           <input name="pin" type="password" inputMode="numeric" autocomplete="new-password" value={pin} onInput={(e) => setPin(e.currentTarget.value)} required />
