@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import type { ReadAnalysis } from '../core/analyze-read.ts';
 import type { FieldError } from '../core/field-error.ts';
-import type { Change, ChangeKind } from '../core/records.ts';
+import type { Change } from '../core/records.ts';
 import { amendmentSchema, bedSchema, handoverSchema, signedReadSchema, staySchema, unitSchema } from '../core/records.ts';
 
 /**
@@ -39,10 +39,12 @@ export const pushResultSchema = z.object({
   /** On a refusal: the change may pass later (what it needs has not reached the server yet), so it is sent again. */
   retryable: z.boolean().optional(),
 });
+/** One validated push answer. */
 export type PushResult = z.infer<typeof pushResultSchema> & { errors?: FieldError[] };
 
 /** Answer of `POST /api/sync/push`: one result per change, in the order sent. */
 export const pushResponseSchema = z.object({ results: z.array(pushResultSchema) });
+/** A validated push answer as a whole. */
 export type PushResponse = z.infer<typeof pushResponseSchema>;
 
 /**
@@ -91,6 +93,7 @@ export const pullResponseSchema = z.object({
   cursor: z.union([z.number().int().nonnegative(), z.string().max(200)]).transform((c) => (typeof c === 'string' && /^\d{1,15}$/.test(c) ? Number(c) : c)),
   hasMore: z.boolean(),
 });
+/** A validated pull page. */
 export interface PullResponse {
   changes: PulledChange[];
   cursor: number | string;
@@ -105,18 +108,18 @@ export const serverUserSchema = z.object({
   role: z.enum(['nurse', 'charge-nurse', 'unit-admin']),
   unitId: z.string().min(1),
 });
+/** The signed-in user after validation. */
 export type ServerUser = z.infer<typeof serverUserSchema>;
 
 /** Answer of `POST /api/auth/sign-in`. */
 export const signInResponseSchema = z.object({ token: z.string().min(1), expiresAtMs: z.number().int().positive(), user: serverUserSchema });
+/** A validated sign-in answer. */
 export type SignInResponse = z.infer<typeof signInResponseSchema>;
 
 /** Answer of `POST /api/devices/enroll`. */
 export const enrollResponseSchema = z.object({ deviceId: z.string().min(1), deviceToken: z.string().min(1) });
+/** A validated enrolment answer. */
 export type EnrollResponse = z.infer<typeof enrollResponseSchema>;
 
 /** Answer of `GET /api/health`. */
 export const healthResponseSchema = z.looseObject({ status: z.string(), coreVersion: z.string().optional(), serverVersion: z.string().optional() });
-
-/** Which kinds carry a record with its own sync state on the tablet. */
-export const kindsWithSyncStatus = ['read.sign', 'amendment.add', 'handover.put'] as const satisfies readonly ChangeKind[];

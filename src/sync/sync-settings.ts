@@ -37,12 +37,16 @@ export interface ServerVersion {
   record: { id: string };
 }
 
+/** Key of the server session (StoredSession). */
 export const sessionKey = 'sync.session';
+/** Key of this tablet's enrolment (StoredDevice). */
 export const deviceKey = 'sync.device';
+/** Key of where the last pull stopped (StoredCursor). */
 export const cursorKey = 'sync.pullCursor';
+/** Key of when a push and pull last both finished, by this tablet's clock. */
 export const lastSyncedKey = 'sync.lastSyncedAtMs';
+/** Key of the ids of server accounts that can unlock this tablet offline. */
 export const serverAccountIdsKey = 'sync.serverAccountIds';
-export const serverUrlKey = 'sync.serverUrl';
 
 /** Key of the latest server version of one record. */
 export const serverVersionKey = (kind: ChangeKind, id: string): string => `sync.serverVersion.${kind}.${id}`;

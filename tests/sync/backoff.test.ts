@@ -36,11 +36,11 @@ describe('backoffDelayMs', () => {
   });
 
   it('spreads many tablets out: 1000 draws after the 5th failure stay in bounds and are not all alike', () => {
-    let seed = 42;
+    let state = 42;
     // A small linear congruential generator keeps the draw repeatable.
     const random = () => {
-      seed = (seed * 1_103_515_245 + 12_345) % 2 ** 31;
-      return seed / 2 ** 31;
+      state = (state * 1_103_515_245 + 12_345) % 2 ** 31;
+      return state / 2 ** 31;
     };
     const delays = Array.from({ length: 1_000 }, () => backoffDelayMs(5, random, policy));
     expect(Math.min(...delays)).toBeGreaterThanOrEqual(1_000);

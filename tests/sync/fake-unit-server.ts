@@ -122,7 +122,7 @@ export class FakeUnitServer {
   }
 
   /** Applies changes made elsewhere (an admin's set-up, another tablet), as the server would. */
-  async seed(changes: readonly Change[]): Promise<void> {
+  async preload(changes: readonly Change[]): Promise<void> {
     for (const change of changes) await this.applyOne(change);
   }
 

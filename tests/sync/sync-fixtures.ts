@@ -167,7 +167,7 @@ export async function newServer(serverNowMs: number = t0): Promise<FakeUnitServe
   const { FakeUnitServer } = await import('./fake-unit-server.ts');
   const server = new FakeUnitServer(serverNowMs, unit.id);
   for (const user of [nurseAsh, nurseBay, adminCy]) server.addUser(user);
-  await server.seed([
+  await server.preload([
     { changeId: 'setup-unit-0001', kind: 'unit.put', deviceTimeMs: unit.updatedAtMs, record: unit },
     { changeId: 'setup-bed-00001', kind: 'bed.put', deviceTimeMs: unit.updatedAtMs, record: bed },
     { changeId: 'setup-stay-0001', kind: 'stay.put', deviceTimeMs: stay.updatedAtMs, record: stay },
