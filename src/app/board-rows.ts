@@ -5,7 +5,7 @@ import { readScheduleState } from '../core/read-schedule.ts';
 import type { Amendment, Bed, SignedRead, Stay, Unit } from '../core/records.ts';
 import { rhythmLabel } from '../core/rhythm-labels.ts';
 import type { Severity, UnitPolicy } from '../core/unit-policy.ts';
-import { deriveStayReads } from '../store/derive-stay-reads.ts';
+import { deriveStayReads } from '../core/stay-reads.ts';
 
 /** One bed on the ward board: who is on it, where the schedule stands, and the latest read's flags. */
 export interface BoardRow {
@@ -37,7 +37,7 @@ export function boardRows(unit: Unit, beds: readonly Bed[], stays: readonly Stay
     .map((bed): BoardRow => {
       const entry = stays.find((s) => s.stay.bedId === bed.id && (s.stay.endMs === null || s.stay.endMs > nowMs));
       if (!entry) return { bed, stay: null, lastReadMs: null, schedule: null, flags: [], rhythmName: null, hasMyDraft: false, attentionRank: 3 };
-      const derived = deriveStayReads(entry.stay, entry.latestReads, entry.amendments, policy);
+      const derived = deriveStayReads(entry.latestReads, entry.amendments, entry.stay, policy);
       const latest = derived.at(-1);
       const flags = latest?.analysis?.flags ?? [];
       const schedule = readScheduleState({

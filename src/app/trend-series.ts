@@ -3,7 +3,7 @@ import { qtcProlongedThreshold } from '../core/read-flags.ts';
 import { qtcFormulaNames } from '../core/qtc.ts';
 import type { ThresholdKey, UnitPolicy } from '../core/unit-policy.ts';
 import { thresholdLabels } from '../core/unit-policy.ts';
-import type { DerivedStayRead } from '../store/derive-stay-reads.ts';
+import type { DerivedRead } from '../core/stay-reads.ts';
 
 /** One figure across a stay's reads, with the unit policy's limits to draw as lines. */
 export interface TrendSeries {
@@ -17,10 +17,10 @@ export interface TrendSeries {
 const limit = (policy: UnitPolicy, key: ThresholdKey) => ({ value: policy.thresholds[key].value, label: thresholdLabels[key] });
 
 /** The four trends of a stay (rate, PR, QRS, QTc) from the core's derived figures; QTc by the unit's one formula, named. */
-export function trendSeries(reads: readonly DerivedStayRead[], policy: UnitPolicy, sex: Sex): TrendSeries[] {
+export function trendSeries(reads: readonly DerivedRead[], policy: UnitPolicy, sex: Sex): TrendSeries[] {
   const withAnalysis = reads.filter((r) => r.analysis !== null);
-  const at = (r: DerivedStayRead) => r.view.current.stripTimeMs;
-  const points = (pick: (r: DerivedStayRead) => number | null | undefined) =>
+  const at = (r: DerivedRead) => r.view.current.stripTimeMs;
+  const points = (pick: (r: DerivedRead) => number | null | undefined) =>
     withAnalysis.flatMap((r) => {
       const value = pick(r);
       return value === null || value === undefined ? [] : [{ timeMs: at(r), value }];

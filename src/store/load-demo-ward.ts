@@ -1,7 +1,7 @@
 import type { RhythmDb, StoredRead } from './db.ts';
 import { addClinician } from './clinicians.ts';
 import { buildDemoWard } from './demo-ward.ts';
-import { deriveStayReads } from './derive-stay-reads.ts';
+import { deriveStayReads } from '../core/stay-reads.ts';
 import { withStorageFullCheck } from './storage-full.ts';
 import { unitPolicyOf } from './unit-policy-of.ts';
 
@@ -14,7 +14,7 @@ export async function loadDemoWard(db: RhythmDb, nowMs: number, pinIterations?: 
   const policy = unitPolicyOf(ward.unit);
   const stored: StoredRead[] = [];
   for (const stay of ward.stays) {
-    for (const derived of deriveStayReads(stay, ward.reads, [], policy)) {
+    for (const derived of deriveStayReads(ward.reads, [], stay, policy)) {
       stored.push({ ...derived.view.read, analysis: derived.analysis, syncStatus: 'pending' });
     }
   }

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { readScheduleState } from '../../src/core/read-schedule.ts';
 import { bedSchema, signedReadSchema, staySchema, unitSchema } from '../../src/core/records.ts';
 import { buildDemoWard } from '../../src/store/demo-ward.ts';
-import { deriveStayReads } from '../../src/store/derive-stay-reads.ts';
+import { deriveStayReads } from '../../src/core/stay-reads.ts';
 import { loadDemoWard } from '../../src/store/load-demo-ward.ts';
 import { signRead } from '../../src/store/sign-read.ts';
 import { unitPolicyOf } from '../../src/store/unit-policy-of.ts';
@@ -13,7 +13,7 @@ const ward = buildDemoWard(nowMs);
 const policy = unitPolicyOf(ward.unit);
 const latestFlagsOf = (stayId: string) => {
   const stay = ward.stays.find((s) => s.id === stayId)!;
-  return deriveStayReads(stay, ward.reads, [], policy).at(-1)?.analysis?.flags.map((f) => f.code) ?? [];
+  return deriveStayReads(ward.reads, [], stay, policy).at(-1)?.analysis?.flags.map((f) => f.code) ?? [];
 };
 
 describe('the demo ward', () => {
@@ -37,7 +37,7 @@ describe('the demo ward', () => {
 
   it('stores counts whose figures the core derives for every read', () => {
     for (const stay of ward.stays) {
-      for (const derived of deriveStayReads(stay, ward.reads, [], policy)) expect(derived.errors).toEqual([]);
+      for (const derived of deriveStayReads(ward.reads, [], stay, policy)) expect(derived.errors).toEqual([]);
     }
   });
 

@@ -2,7 +2,7 @@ import { roundForDisplay } from '../../core/display-rounding.ts';
 import { readReasonNames } from '../../core/records.ts';
 import { rhythmLabel } from '../../core/rhythm-labels.ts';
 import type { StoredRead } from '../../store/db.ts';
-import type { DerivedStayRead } from '../../store/derive-stay-reads.ts';
+import type { DerivedRead } from '../../core/stay-reads.ts';
 import { flagCounts } from '../board-rows.ts';
 import { hrefOf } from '../routes.ts';
 import { dayClockText } from '../time-text.ts';
@@ -12,7 +12,7 @@ const ms = (v: number | null | undefined) => (v === null || v === undefined ? 'â
 const syncWords = { pending: 'Waiting to send', accepted: 'On the unit server', rejected: 'Refused by the server' } as const;
 
 /** One read in a bed's list: time, figures from the core, rhythm, reason, author, flags, sync state, amend link. */
-export function ReadRow({ derived, stored, timeZone, mine }: { derived: DerivedStayRead; stored: StoredRead | undefined; timeZone: string; mine: boolean }) {
+export function ReadRow({ derived, stored, timeZone, mine }: { derived: DerivedRead; stored: StoredRead | undefined; timeZone: string; mine: boolean }) {
   const { view, analysis } = derived;
   const read = view.current;
   const counts = flagCounts(analysis?.flags ?? []);

@@ -3,7 +3,8 @@ import { ValidationError } from '../../core/field-error.ts';
 import { currentReadView } from '../../core/read-derivation.ts';
 import type { ReadDraftForm } from '../../store/read-draft.ts';
 import { AmendNotAllowedError, amendRead } from '../../store/amend-read.ts';
-import { deriveStayReads, previousFiguresBefore } from '../../store/derive-stay-reads.ts';
+import { deriveStayReads } from '../../core/stay-reads.ts';
+import { previousFiguresBefore } from '../../store/derive-stay-reads.ts';
 import { StorageFullError } from '../../store/storage-full.ts';
 import { amendmentChanges, formFromRead } from '../amend-changes.ts';
 import { useCharting } from '../app-context.ts';
@@ -39,7 +40,7 @@ export function AmendRead({ readId }: { readId: string }) {
   if (!data.read || !data.stay || !view) return <p>This read is not on this tablet. <a href={hrefOf({ screen: 'board' })}>Back to beds</a></p>;
   const { read, stay } = data;
   const mine = read.authorId === clinician.id;
-  const original = deriveStayReads(stay, data.reads.map((r) => (r.id === read.id ? read : r)), data.amendments.filter((a) => a.readId !== read.id), policy).find((d) => d.view.read.id === read.id);
+  const original = deriveStayReads(data.reads.map((r) => (r.id === read.id ? read : r)), data.amendments.filter((a) => a.readId !== read.id), stay, policy).find((d) => d.view.read.id === read.id);
   const strip = form ? stripTimeOf(form, unit.timeZone) : null;
   const previous = strip?.ok ? previousFiguresBefore(stay, data.reads, data.amendments, policy, strip.ms, read.id) : undefined;
   const live = form ? liveRead(form, stay, previous, policy) : null;

@@ -2,7 +2,7 @@ import { useMemo, useState } from 'preact/hooks';
 import { qtcFormulaNames } from '../../core/qtc.ts';
 import { shiftAt } from '../../core/shifts.ts';
 import { loadBedData } from '../../store/board-query.ts';
-import { deriveStayReads } from '../../store/derive-stay-reads.ts';
+import { deriveStayReads } from '../../core/stay-reads.ts';
 import { useCharting } from '../app-context.ts';
 import { DecisionSupportNote } from '../components/DecisionSupportNote.tsx';
 import { FlagBanners } from '../components/FlagBanner.tsx';
@@ -22,7 +22,7 @@ export function BedPage({ bedId }: { bedId: string }) {
   const nowMs = useNowMs();
   const [flash] = useState(() => takeFlash());
   const data = useLiveQuery(() => loadBedData(db, bedId), [db, bedId]);
-  const derived = useMemo(() => (data?.stay ? deriveStayReads(data.stay, data.reads, data.amendments, policy) : []), [data, policy]);
+  const derived = useMemo(() => (data?.stay ? deriveStayReads(data.reads, data.amendments, data.stay, policy) : []), [data, policy]);
 
   if (!data) return <p class="loading">Opening the bed…</p>;
   if (!data.bed) return <p>This bed is not on this tablet. <a href={hrefOf({ screen: 'board' })}>Back to beds</a></p>;
