@@ -1,5 +1,6 @@
 import { liveQuery } from 'dexie';
 import type { RhythmDb } from '../store/db.ts';
+import { adoptUnit } from './adopt-unit.ts';
 import type { BackoffPolicy } from './backoff.ts';
 import { backoffDelayMs, defaultBackoffPolicy } from './backoff.ts';
 import type { PullSummary } from './pull-changes.ts';
@@ -158,6 +159,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       if (!isOnline()) throw offlineError();
       const pushed = await pushOutbox(db, connection, credentials);
       const pulled = await pullChanges(db, connection, credentials, session.user.unitId);
+      await adoptUnit(db, session.user.unitId);
       const syncedAtMs = now();
       await writeSyncSetting(db, lastSyncedKey, syncedAtMs);
       if (pushed.deferred > 0) {

@@ -11,6 +11,7 @@ import { openSqliteStore } from '../../src/server/storage/open-sqlite-store.ts';
 import type { Store, UserRecord } from '../../src/server/storage/store.ts';
 import { verifyPin } from '../../src/store/clinicians.ts';
 import { RhythmDb } from '../../src/store/db.ts';
+import { readSetting } from '../../src/store/settings.ts';
 import { signRead } from '../../src/store/sign-read.ts';
 import { admitStay } from '../../src/store/stays.ts';
 import { saveBed } from '../../src/store/unit-setup.ts';
@@ -136,6 +137,7 @@ describe('sync engine against the real unit server (SQLite)', () => {
     // The admin's first sync pulls the unit the server created.
     expect((await syncOk(wardTablet)).pulled.received).toBe(1);
     expect((await wardTablet.db.units.get(unit.id))?.name).toBe('Invented Ward 6 North');
+    expect(await readSetting(wardTablet.db, 'currentUnitId', null)).toBe(unit.id);
     const { stay } = await setUpBedAndStay(wardTablet);
     expect((await syncOk(wardTablet)).pushed).toMatchObject({ accepted: 2, rejected: 0 });
 

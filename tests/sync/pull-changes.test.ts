@@ -170,3 +170,19 @@ describe('nextCursor', () => {
     expect(nextCursor(0, { changes: [change(1)], cursor: 'opaque-1' })).toBe('opaque-1');
   });
 });
+
+describe('adoptUnit', () => {
+  it('makes the pulled unit the tablet unit on a new tablet, and leaves a tablet that has one alone', async () => {
+    const { adoptUnit } = await import('../../src/sync/adopt-unit.ts');
+    const { readSetting, writeSetting } = await import('../../src/store/settings.ts');
+    const fresh = await emptyTablet();
+    expect(await adoptUnit(fresh, unit.id)).toBe(false);
+    await fresh.units.put(unit);
+    expect(await adoptUnit(fresh, unit.id)).toBe(true);
+    expect(await readSetting(fresh, 'currentUnitId', null)).toBe(unit.id);
+    const demo = await newTablet();
+    await writeSetting(demo, 'currentUnitId', 'demo-unit-7-north');
+    expect(await adoptUnit(demo, unit.id)).toBe(false);
+    expect(await readSetting(demo, 'currentUnitId', null)).toBe('demo-unit-7-north');
+  });
+});
