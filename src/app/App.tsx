@@ -1,5 +1,6 @@
 import { useCallback, useEffect, useState } from 'preact/hooks';
 import type { ClinicianRow, RhythmDb } from '../store/db.ts';
+import type { SyncEngine } from '../sync/sync-engine.ts';
 import type { PersistenceState } from '../store/persistent-storage.ts';
 import { requestPersistentStorage } from '../store/persistent-storage.ts';
 import { deviceIdOf, readSetting, writeSetting } from '../store/settings.ts';
@@ -12,7 +13,7 @@ import { LockScreen } from './screens/LockScreen.tsx';
 import { useLiveQuery } from './use-live-query.ts';
 
 /** The tablet app: first run, then the lock screen, then the ward behind it. */
-export function App({ db }: { db: RhythmDb }) {
+export function App({ db, sync }: { db: RhythmDb; sync?: SyncEngine }) {
   const found = useLiveQuery(async () => {
     const unitId = await readSetting<string | null>(db, 'currentUnitId', null);
     const unit = unitId ? await db.units.get(unitId) : undefined;
@@ -37,10 +38,10 @@ export function App({ db }: { db: RhythmDb }) {
   }, []);
 
   if (found === undefined || deviceId === null) return <p class="loading">Opening the ward…</p>;
-  if (found.unit === null) return <FirstRun db={db} />;
+  if (found.unit === null) return <FirstRun db={db} {...(sync ? { sync } : {})} />;
   if (!clinician) return <LockScreen db={db} unit={found.unit} demoWard={found.demoWard} onUnlock={setClinician} />;
   return (
-    <ChartingContext.Provider value={{ db, deviceId, unit: found.unit, policy: unitPolicyOf(found.unit), clinician, demoWard: found.demoWard }}>
+    <ChartingContext.Provider value={{ db, deviceId, unit: found.unit, policy: unitPolicyOf(found.unit), clinician, demoWard: found.demoWard, sync: sync ?? null }}>
       <AppShell onLock={lock} storage={storage} />
     </ChartingContext.Provider>
   );

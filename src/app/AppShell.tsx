@@ -1,5 +1,6 @@
 import type { PersistenceState } from '../store/persistent-storage.ts';
 import { useCharting } from './app-context.ts';
+import { SyncStatusBar } from '../sync/ui/SyncStatusBar.tsx';
 import { UpdateNotice } from './components/UpdateNotice.tsx';
 import { hrefOf, useRoute } from './routes.ts';
 import { AmendRead } from './screens/AmendRead.tsx';
@@ -18,7 +19,7 @@ const storageWords: Record<PersistenceState, string> = {
 
 /** Header, screen and lock for a clinician who is charting. */
 export function AppShell({ onLock, storage }: { onLock: () => void; storage: PersistenceState | null }) {
-  const { unit, clinician, demoWard } = useCharting();
+  const { unit, clinician, demoWard, sync } = useCharting();
   const route = useRoute();
   useIdleLock(unit.idleLockMinutes, onLock);
   return (
@@ -46,6 +47,7 @@ export function AppShell({ onLock, storage }: { onLock: () => void; storage: Per
         </div>
         {storage ? <p class={`storage storage-${storage}`}>{storageWords[storage]}</p> : null}
       </header>
+      {sync && !demoWard ? <SyncStatusBar engine={sync} timeZone={unit.timeZone} /> : null}
       <UpdateNotice />
       <main class="screen">
         {route.screen === 'board' ? <BedsBoard /> : null}

@@ -3,6 +3,7 @@ import { useContext } from 'preact/hooks';
 import type { Unit } from '../core/records.ts';
 import type { UnitPolicy } from '../core/unit-policy.ts';
 import type { ClinicianRow, RhythmDb } from '../store/db.ts';
+import type { SyncEngine } from '../sync/sync-engine.ts';
 
 /** What every screen behind the lock needs: the store, this tablet, its unit and who is charting. */
 export interface Charting {
@@ -12,6 +13,8 @@ export interface Charting {
   policy: UnitPolicy;
   clinician: ClinicianRow;
   demoWard: boolean;
+  /** The sync engine with the unit server; null where none runs (tests, the demo). */
+  sync: SyncEngine | null;
 }
 
 export const ChartingContext = createContext<Charting | null>(null);

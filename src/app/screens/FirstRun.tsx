@@ -3,17 +3,19 @@ import { ValidationError } from '../../core/field-error.ts';
 import type { Bed, Unit } from '../../core/records.ts';
 import { addClinician, pinPattern } from '../../store/clinicians.ts';
 import type { RhythmDb } from '../../store/db.ts';
+import type { SyncEngine } from '../../sync/sync-engine.ts';
 import { loadDemoWard } from '../../store/load-demo-ward.ts';
 import { StorageFullError } from '../../store/storage-full.ts';
 import { saveUnitSetup } from '../../store/unit-setup.ts';
 import { uuidV7 } from '../../store/uuid-v7.ts';
 import { DecisionSupportNote } from '../components/DecisionSupportNote.tsx';
+import { ServerConnect } from '../components/ServerConnect.tsx';
 import { shiftPresets } from '../shift-presets.ts';
 
 const tabletTimeZone = () => Intl.DateTimeFormat().resolvedOptions().timeZone || 'UTC';
 
 /** A new tablet: set up the ward and its first clinician in three steps, or load the invented demo ward. */
-export function FirstRun({ db }: { db: RhythmDb }) {
+export function FirstRun({ db, sync }: { db: RhythmDb; sync?: SyncEngine }) {
   const [step, setStep] = useState<0 | 1 | 2 | 3>(0);
   const [unitName, setUnitName] = useState('');
   const [timeZone, setTimeZone] = useState(tabletTimeZone());
@@ -87,6 +89,13 @@ export function FirstRun({ db }: { db: RhythmDb }) {
               Set up this ward
             </button>
           </section>
+          {sync ? (
+            <section class="choice">
+              <h2>Join a ward on the unit server</h2>
+              <p>Sign in with your unit account; the ward, its beds and its clinicians come from the server.</p>
+              <ServerConnect db={db} sync={sync} />
+            </section>
+          ) : null}
           <section class="choice">
             <h2>Try the demo ward</h2>
             <p>An invented hospital and ward (Harbourside General, Ward 7 North) with made-up patients by initials, and a few days of reads. Nothing is sent to a server.</p>

@@ -1,5 +1,6 @@
 import { useCharting } from '../app-context.ts';
 import { DecisionSupportNote } from '../components/DecisionSupportNote.tsx';
+import { ServerConnect } from '../components/ServerConnect.tsx';
 import { BedsEditor } from '../settings/BedsEditor.tsx';
 import { CliniciansEditor } from '../settings/CliniciansEditor.tsx';
 import { PolicyEditor } from '../settings/PolicyEditor.tsx';
@@ -8,7 +9,7 @@ import { useLiveQuery } from '../use-live-query.ts';
 
 /** Unit settings: the ward, its beds, the policy with sources and history, clinicians and this tablet. */
 export function UnitSettings() {
-  const { db, unit, policy, clinician, deviceId } = useCharting();
+  const { db, unit, policy, clinician, deviceId, sync, demoWard } = useCharting();
   const beds = useLiveQuery(() => db.beds.where('unitId').equals(unit.id).toArray(), [db, unit.id]);
   const waiting = useLiveQuery(() => db.outbox.where('status').anyOf('pending', 'sending').count(), [db]);
   const persisted = useLiveQuery(() => db.settings.get('persistentStorage'), [db]);
@@ -32,6 +33,12 @@ export function UnitSettings() {
             {persisted?.value === 'granted' ? 'yes' : 'not guaranteed (the browser may clear data under storage pressure; install the app to the home screen)'}
           </li>
         </ul>
+        {sync && !demoWard && canEdit ? (
+          <details>
+            <summary>Connect this tablet to the unit server</summary>
+            <ServerConnect db={db} sync={sync} />
+          </details>
+        ) : null}
       </section>
     </section>
   );
