@@ -1,5 +1,6 @@
-// Builds the tablet app when the build is missing or older than its sources, then starts the unit server.
-import { spawnSync } from 'node:child_process';
+// Builds the tablet app when the build is missing or older than its sources, then starts the unit server
+// (arguments are passed on: `npm start -- --port 9000`), passing SIGINT and SIGTERM on so it stops cleanly.
+import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 
@@ -16,5 +17,6 @@ if (stale) {
   const build = spawnSync(process.execPath, ['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn'], { stdio: 'inherit' });
   if (build.status !== 0) process.exit(build.status ?? 1);
 }
-const server = spawnSync(process.execPath, ['--import', 'tsx', 'src/server/main.ts', ...process.argv.slice(2)], { stdio: 'inherit' });
-process.exit(server.status ?? 1);
+const server = spawn(process.execPath, ['--import', 'tsx', 'src/server/main.ts', ...process.argv.slice(2)], { stdio: 'inherit' });
+for (const signal of ['SIGINT', 'SIGTERM']) process.on(signal, () => server.kill(signal));
+server.on('exit', (code, signal) => process.exit(code ?? (signal ? 1 : 0)));

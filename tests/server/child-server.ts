@@ -75,7 +75,7 @@ export class HttpTablet {
   constructor(
     public baseUrl: string,
     private readonly deviceToken: string,
-    private token = '',
+    public token = '',
   ) {}
 
   async signIn(username: string): Promise<void> {

@@ -31,8 +31,8 @@ describe('server log', () => {
   });
 
   it('answers a storage fault with a 500 that quotes nothing, and logs only the error’s name', async () => {
-    const failing = t.store as Store & { pullChanges: Store['pullChanges'] };
-    failing.pullChanges = async () => {
+    const failing = t.store as Store & { pullChangesText: Store['pullChangesText'] };
+    failing.pullChangesText = async () => {
       throw new Error('relation "change_log" row for patient X.Y. is corrupt');
     };
     const answer = await t.admin.get('/api/sync/pull');

@@ -194,6 +194,11 @@ export function runStoreSuite({ newStore }: { newStore: () => Promise<TestStore>
       const last = await store.pullChanges(unit.id, 2, 2);
       expect(last.map((c) => [c.seq, c.changeId, (c.record as { sortOrder: number }).sortOrder])).toEqual([[3, 'change-3-000', 3]]);
       expect(await store.inUnitTransaction(unit.id, (tx) => tx.getBed(bed.id))).toEqual({ ...bed, sortOrder: 3 });
+      const asText = await store.pullChangesText(unit.id, 1, 5);
+      expect(asText.map((c) => [c.seq, c.changeId, JSON.parse(c.recordJson).sortOrder, c.derivedJson])).toEqual([
+        [2, 'change-2-000', 2, null],
+        [3, 'change-3-000', 3, null],
+      ]);
     });
 
     it('keeps nothing of a transaction that throws: no change, no counter step, no answer', async () => {

@@ -32,19 +32,17 @@ export function registerSyncRoutes(app: FastifyInstance, { store, nowMs }: { sto
     return { results };
   });
 
-  app.get('/api/sync/pull', async (request) => {
+  app.get('/api/sync/pull', async (request, reply) => {
     const { user } = authOf(request);
     const { after, limit } = parseInput(pullQuerySchema, request.query);
-    const rows = await store.pullChanges(user.unitId, after, limit + 1);
+    const rows = await store.pullChangesText(user.unitId, after, limit + 1);
     const page = rows.slice(0, limit);
-    const changes = page.map((c) => {
-      const item: Record<string, unknown> = { seq: c.seq, changeId: c.changeId, kind: c.kind, record: c.record, serverTimeMs: c.serverTimeMs, deviceTimeMs: c.deviceTimeMs };
-      if (c.derived) {
-        item.derived = c.derived;
-        item.coreVersion = c.coreVersion;
-      }
-      return item;
+    // Records and analyses go out as the JSON text they were stored as, spliced in without a parse and re-serialise.
+    const items = page.map((c) => {
+      const head = `{"seq":${c.seq},"changeId":${JSON.stringify(c.changeId)},"kind":${JSON.stringify(c.kind)},"record":${c.recordJson},"serverTimeMs":${c.serverTimeMs},"deviceTimeMs":${c.deviceTimeMs}`;
+      return c.derivedJson === null ? `${head}}` : `${head},"derived":${c.derivedJson},"coreVersion":${JSON.stringify(c.coreVersion)}}`;
     });
-    return { changes, cursor: String(page.at(-1)?.seq ?? after), hasMore: rows.length > limit };
+    const tail = `"cursor":${JSON.stringify(String(page.at(-1)?.seq ?? after))},"hasMore":${rows.length > limit}`;
+    return reply.type('application/json; charset=utf-8').send(`{"changes":[${items.join(',')}],${tail}}`);
   });
 }

@@ -1,4 +1,4 @@
-import type { Kysely, Selectable, Transaction } from 'kysely';
+import type { Insertable, Kysely, Selectable, Transaction } from 'kysely';
 import type { ReadAnalysis } from '../../core/analyze-read.ts';
 import type { Amendment, Bed, Handover, SignedRead, Stay, Unit } from '../../core/records.ts';
 import type { ChangeResult } from '../sync/change-result.ts';
@@ -8,6 +8,7 @@ import type {
   AuditFilter,
   DeviceRecord,
   LoggedChange,
+  LoggedChangeText,
   NewAuditEvent,
   NewLoggedChange,
   Role,
@@ -118,49 +119,76 @@ function auditRow(event: NewAuditEvent) {
   };
 }
 
-/** The unit-scoped queries of one push, inside the transaction that holds the unit's counter row. */
+/** Rows per multi-row insert when the buffered log rows are written (well under both engines' parameter limits). */
+const flushChunkRows = 400;
+
+/**
+ * The unit-scoped queries of one push, inside the transaction that holds the unit's counter row.
+ * Change-log, answer and audit rows are only written, never read back, within a push (answers are
+ * also looked up here first), so they are buffered and written in a few multi-row inserts before the
+ * commit: same transaction, same atomicity, far fewer round trips to PostgreSQL.
+ */
 class KyselyUnitTransaction implements UnitTransaction {
+  private readonly pendingChanges: Array<Insertable<DatabaseSchema['change_log']>> = [];
+  private readonly pendingAnswers = new Map<string, { row: Insertable<DatabaseSchema['change_answers']>; answer: ChangeResult }>();
+  private readonly pendingAudit: Array<Insertable<DatabaseSchema['audit_events']>> = [];
+  private unit: Unit | undefined;
+
   constructor(
     private readonly tx: Tx,
     readonly unitId: string,
     public lastSeq: number,
   ) {}
 
+  /** Writes the buffered rows; called once the work is done, inside the same transaction. */
+  async flush(): Promise<void> {
+    const answers = [...this.pendingAnswers.values()].map((p) => p.row);
+    for (let i = 0; i < this.pendingChanges.length; i += flushChunkRows) await this.tx.insertInto('change_log').values(this.pendingChanges.slice(i, i + flushChunkRows)).execute();
+    for (let i = 0; i < answers.length; i += flushChunkRows) await this.tx.insertInto('change_answers').values(answers.slice(i, i + flushChunkRows)).execute();
+    for (let i = 0; i < this.pendingAudit.length; i += flushChunkRows) await this.tx.insertInto('audit_events').values(this.pendingAudit.slice(i, i + flushChunkRows)).execute();
+    this.pendingChanges.length = 0;
+    this.pendingAnswers.clear();
+    this.pendingAudit.length = 0;
+  }
+
   async answerOf(changeId: string): Promise<ChangeResult | undefined> {
+    const pending = this.pendingAnswers.get(changeId);
+    if (pending) return pending.answer;
     const row = await this.tx.selectFrom('change_answers').select('answer_json').where('unit_id', '=', this.unitId).where('change_id', '=', changeId).executeTakeFirst();
     return row ? parse<ChangeResult>(row.answer_json) : undefined;
   }
 
   async rememberAnswer(changeId: string, answer: ChangeResult, atMs: number): Promise<void> {
-    await this.tx.insertInto('change_answers').values({ unit_id: this.unitId, change_id: changeId, answer_json: JSON.stringify(answer), server_time_ms: atMs }).execute();
+    if (this.pendingAnswers.has(changeId)) throw new Error('a change is answered once');
+    this.pendingAnswers.set(changeId, { row: { unit_id: this.unitId, change_id: changeId, answer_json: JSON.stringify(answer), server_time_ms: atMs }, answer: structuredClone(answer) });
   }
 
   async appendChange(change: NewLoggedChange): Promise<number> {
     const seq = this.lastSeq + 1;
-    await this.tx
-      .insertInto('change_log')
-      .values({
-        unit_id: this.unitId,
-        seq,
-        change_id: change.changeId,
-        kind: change.kind,
-        record_id: change.recordId,
-        record_json: JSON.stringify(change.record),
-        derived_json: change.derived === null ? null : JSON.stringify(change.derived),
-        core_version: change.coreVersion,
-        server_time_ms: change.serverTimeMs,
-        device_time_ms: change.deviceTimeMs,
-        user_id: change.userId,
-        device_id: change.deviceId,
-      })
-      .execute();
+    this.pendingChanges.push({
+      unit_id: this.unitId,
+      seq,
+      change_id: change.changeId,
+      kind: change.kind,
+      record_id: change.recordId,
+      record_json: JSON.stringify(change.record),
+      derived_json: change.derived === null ? null : JSON.stringify(change.derived),
+      core_version: change.coreVersion,
+      server_time_ms: change.serverTimeMs,
+      device_time_ms: change.deviceTimeMs,
+      user_id: change.userId,
+      device_id: change.deviceId,
+    });
     this.lastSeq = seq;
     return seq;
   }
 
   async getUnit(): Promise<Unit> {
-    const row = await this.tx.selectFrom('units').select('record_json').where('id', '=', this.unitId).executeTakeFirstOrThrow();
-    return parse<Unit>(row.record_json);
+    if (!this.unit) {
+      const row = await this.tx.selectFrom('units').select('record_json').where('id', '=', this.unitId).executeTakeFirstOrThrow();
+      this.unit = parse<Unit>(row.record_json);
+    }
+    return structuredClone(this.unit);
   }
 
   async getUser(id: string): Promise<UserRecord | undefined> {
@@ -174,6 +202,7 @@ class KyselyUnitTransaction implements UnitTransaction {
   }
 
   async putUnit(unit: Unit): Promise<void> {
+    this.unit = structuredClone(unit);
     await this.tx.updateTable('units').set({ name: unit.name, record_json: JSON.stringify(unit) }).where('id', '=', this.unitId).execute();
   }
 
@@ -277,7 +306,7 @@ class KyselyUnitTransaction implements UnitTransaction {
   }
 
   async appendAudit(event: NewAuditEvent): Promise<void> {
-    await this.tx.insertInto('audit_events').values(auditRow(event)).execute();
+    this.pendingAudit.push(auditRow(event));
   }
 }
 
@@ -492,6 +521,7 @@ export class KyselyStore implements Store {
       const startSeq = Number(counter.last_seq);
       const unitTx = new KyselyUnitTransaction(tx, unitId, startSeq);
       const result = await work(unitTx);
+      await unitTx.flush();
       if (unitTx.lastSeq !== startSeq) await tx.updateTable('units').set({ last_seq: unitTx.lastSeq }).where('id', '=', unitId).execute();
       return result;
     });
@@ -500,6 +530,27 @@ export class KyselyStore implements Store {
   async pullChanges(unitId: string, afterSeq: number, limit: number): Promise<LoggedChange[]> {
     const rows = await this.db.selectFrom('change_log').selectAll().where('unit_id', '=', unitId).where('seq', '>', afterSeq).orderBy('seq').limit(limit).execute();
     return rows.map(changeFrom);
+  }
+
+  async pullChangesText(unitId: string, afterSeq: number, limit: number): Promise<LoggedChangeText[]> {
+    const rows = await this.db
+      .selectFrom('change_log')
+      .select(['seq', 'change_id', 'kind', 'record_json', 'derived_json', 'core_version', 'server_time_ms', 'device_time_ms'])
+      .where('unit_id', '=', unitId)
+      .where('seq', '>', afterSeq)
+      .orderBy('seq')
+      .limit(limit)
+      .execute();
+    return rows.map((row) => ({
+      seq: Number(row.seq),
+      changeId: row.change_id,
+      kind: row.kind,
+      recordJson: row.record_json,
+      derivedJson: row.derived_json,
+      coreVersion: row.core_version,
+      serverTimeMs: Number(row.server_time_ms),
+      deviceTimeMs: Number(row.device_time_ms),
+    }));
   }
 
   async lastSeq(unitId: string): Promise<number> {

@@ -89,6 +89,18 @@ export interface LoggedChange {
 }
 export type NewLoggedChange = Omit<LoggedChange, 'seq'>;
 
+/** A logged change with its record and analysis still as the stored JSON text, for pulls that pass them on unchanged. */
+export interface LoggedChangeText {
+  seq: number;
+  changeId: string;
+  kind: string;
+  recordJson: string;
+  derivedJson: string | null;
+  coreVersion: string | null;
+  serverTimeMs: number;
+  deviceTimeMs: number;
+}
+
 export interface StoredRead {
   read: SignedRead;
   analysis: ReadAnalysis;
@@ -180,6 +192,8 @@ export interface Store {
   inUnitTransaction<T>(unitId: string, work: (tx: UnitTransaction) => Promise<T>): Promise<T>;
   /** Committed changes of the unit with seq > afterSeq, in seq order. */
   pullChanges(unitId: string, afterSeq: number, limit: number): Promise<LoggedChange[]>;
+  /** The same changes with records left as stored JSON text: a pull sends them on without parsing and re-serialising. */
+  pullChangesText(unitId: string, afterSeq: number, limit: number): Promise<LoggedChangeText[]>;
   lastSeq(unitId: string): Promise<number>;
   close(): Promise<void>;
 }
