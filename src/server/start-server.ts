@@ -15,8 +15,8 @@ export interface RunningServer {
 
 /** The command that creates the first unit admin, shown when the server has no accounts yet. */
 export const firstAdminHint =
-  'No accounts yet. Create the unit and its first unit admin (the password is read from stdin):\n' +
-  '  echo "a long passphrase" | npx rhythm-ledger admin create --unit-name "4 West Telemetry" --time-zone Europe/Dublin --username admin --name "A. Admin" --password-stdin';
+  'No accounts yet. Create the unit and its first unit admin (type the password, then Enter and Ctrl-D):\n' +
+  '  npx rhythm-ledger admin create --unit-name "4 West Telemetry" --time-zone Europe/Dublin --username admin --name "A. Admin" --password-stdin';
 
 /** Opens storage (running migrations), builds the app and listens on HOST:PORT. */
 export async function startServer(settings: ServerSettings, log: ServerLog, print: (line: string) => void = console.log): Promise<RunningServer> {
