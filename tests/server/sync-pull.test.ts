@@ -37,6 +37,11 @@ describe('pull', () => {
     expect(empty).toEqual({ changes: [], cursor: '10', hasMore: false });
   });
 
+  it('answers 409 cursor-ahead to a cursor beyond the last change (the server went back to a backup)', async () => {
+    const answer = await nurse.get('/api/sync/pull?after=11');
+    expect([answer.statusCode, (answer.json() as { code: string }).code]).toEqual([409, 'cursor-ahead']);
+  });
+
   it('carries the server’s analysis and core version with each read, and device time as data', async () => {
     const read = (await pullAll(nurse)).changes.find((c) => c.kind === 'read.sign');
     expect(read?.derived?.coreVersion).toBe('1.0.0');

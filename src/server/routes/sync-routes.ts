@@ -1,6 +1,7 @@
 import type { FastifyInstance } from 'fastify';
 import { z } from 'zod';
 import { authOf } from '../auth/access-guard.ts';
+import { HttpError } from '../http-error.ts';
 import { parseInput } from '../parse-input.ts';
 import type { Store } from '../storage/store.ts';
 import { applyPush } from '../sync/apply-push.ts';
@@ -35,6 +36,11 @@ export function registerSyncRoutes(app: FastifyInstance, { store, nowMs }: { sto
   app.get('/api/sync/pull', async (request, reply) => {
     const { user } = authOf(request);
     const { after, limit } = parseInput(pullQuerySchema, request.query);
+    // A cursor beyond the unit's last change means the database went back (restored from a backup):
+    // the tablet must pull from 0 and push its records again, or it would miss changes numbered anew.
+    if (after > 0 && after > (await store.lastSeq(user.unitId))) {
+      throw new HttpError(409, { error: 'The unit server was restored from an earlier backup: pull again from the start and push every local record again.', code: 'cursor-ahead' });
+    }
     const rows = await store.pullChangesText(user.unitId, after, limit + 1);
     const page = rows.slice(0, limit);
     // Records and analyses go out as the JSON text they were stored as, spliced in without a parse and re-serialise.
