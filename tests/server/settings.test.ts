@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { defaultSettings, isLoopbackHost, readSettings, settingDefinitions } from '../../src/server/settings.ts';
@@ -36,5 +37,16 @@ describe('settings', () => {
   it('knows which addresses are loopback', () => {
     expect(['127.0.0.1', '127.8.9.10', 'localhost', '::1'].map(isLoopbackHost)).toEqual([true, true, true, true]);
     expect(['0.0.0.0', '192.168.1.5', '::', 'ward-server'].map(isLoopbackHost)).toEqual([false, false, false, false]);
+  });
+
+  it('is listed in full in the README, each setting with its flag and default', () => {
+    const readme = readFileSync(resolve('README.md'), 'utf8');
+    const section = readme.slice(readme.indexOf('## Settings'), readme.indexOf('\n## ', readme.indexOf('## Settings') + 5));
+    for (const d of settingDefinitions) {
+      const row = section.split('\n').find((line) => line.startsWith(`| \`${d.env}\` | \`${d.flag}\` |`));
+      expect([d.env, row !== undefined]).toEqual([d.env, true]);
+      const defaultCell = row?.split('|')[3]?.trim() ?? '';
+      expect([d.env, d.defaultText === '(none: SQLite)' ? defaultCell === 'none (SQLite)' : defaultCell === `\`${d.defaultText}\``]).toEqual([d.env, true]);
+    }
   });
 });
