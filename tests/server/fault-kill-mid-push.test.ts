@@ -10,9 +10,9 @@ import { HttpTablet, seedUnit, startChildServer } from './child-server.ts';
 import { changeOf, demoBed, demoRead, demoStay } from './fixtures.ts';
 
 const readsPerBatch = 200;
-/** Kill delays after sending each push: early (while the body is read) to late (around commit). */
-const killDelaysMs = [30, 120, 250, 600];
-const rounds = killDelaysMs.length;
+/** When to kill, as a share of how long an uninterrupted push of the same size took: early (reading the body) to late (around the commit). */
+const killPoints = [0.1, 0.45, 0.8, 0.97];
+const rounds = killPoints.length;
 
 describe('fault: the server process killed in the middle of a push, then restarted', () => {
   const dataDir = mkdtempSync(join(tmpdir(), 'rl-kill-'));
@@ -22,7 +22,7 @@ describe('fault: the server process killed in the middle of a push, then restart
     rmSync(dataDir, { recursive: true, force: true });
   });
 
-  it('keeps every read exactly once: no batch half-applied, every retry answered, 800 reads on the tablet, in the database and in a pull', async () => {
+  it('keeps every read exactly once: no batch half-applied, every retry answered, 1,000 reads on the tablet, in the database and in a pull', async () => {
     const store = await openSqliteStore(join(dataDir, sqliteFileName));
     const seeded = await seedUnit(store);
     await store.close();
@@ -34,7 +34,13 @@ describe('fault: the server process killed in the middle of a push, then restart
     const stay = demoStay(seeded.unit.id, bed.id);
     expect((await tablet.push([changeOf('bed.put', bed), changeOf('stay.put', stay)])).map((r) => r.status)).toEqual(['accepted', 'accepted']);
 
-    const tabletReadIds: string[] = [];
+    // One uninterrupted push of the same size, to time the kills against.
+    const warmUp = Array.from({ length: readsPerBatch }, (_, i) => changeOf('read.sign', demoRead(stay, seeded.admin.id, { stripTimeMs: stay.startMs - (i + 1) * 60_000 })));
+    const timedFrom = performance.now();
+    expect((await tablet.push(warmUp)).every((r) => r.status === 'accepted')).toBe(true);
+    const pushMs = performance.now() - timedFrom;
+
+    const tabletReadIds: string[] = warmUp.map((c) => (c.record as { id: string }).id);
     let unansweredPushes = 0;
     const storedAfterKill: number[] = [];
     for (let round = 0; round < rounds; round += 1) {
@@ -48,7 +54,7 @@ describe('fault: the server process killed in the middle of a push, then restart
         () => 'answered' as const,
         () => 'no answer' as const,
       );
-      await new Promise((r) => setTimeout(r, killDelaysMs[round]));
+      await new Promise((r) => setTimeout(r, pushMs * (killPoints[round] as number)));
       await server.kill('SIGKILL');
       if ((await attempt) === 'no answer') unansweredPushes += 1;
 
@@ -69,16 +75,17 @@ describe('fault: the server process killed in the middle of a push, then restart
 
     const pulledReads = (await tablet.pullAll()).filter((c) => c.kind === 'read.sign');
     const pulledIds = pulledReads.map((c) => c.record.id);
-    expect(tabletReadIds.length).toBe(rounds * readsPerBatch);
-    expect(pulledIds.length).toBe(rounds * readsPerBatch);
+    const totalReads = (rounds + 1) * readsPerBatch;
+    expect(tabletReadIds.length).toBe(totalReads);
+    expect(pulledIds.length).toBe(totalReads);
     expect(new Set(pulledIds)).toEqual(new Set(tabletReadIds));
     await server.kill('SIGTERM');
 
     const after = await openSqliteStore(join(dataDir, sqliteFileName));
     const all = await after.pullChanges(seeded.unit.id, 0, 10_000);
-    expect(all.filter((c) => c.kind === 'read.sign').length).toBe(rounds * readsPerBatch);
+    expect(all.filter((c) => c.kind === 'read.sign').length).toBe(totalReads);
     expect(all.map((c) => c.seq)).toEqual(Array.from({ length: all.length }, (_, i) => i + 1));
-    console.log(`kill mid-push: ${unansweredPushes} of ${rounds} pushes killed before answering (batch found whole after restart: ${storedAfterKill.join(', ')}); reads: tablet ${tabletReadIds.length}, pulled ${pulledIds.length}, stored ${all.filter((c) => c.kind === 'read.sign').length}`);
+    console.log(`kill mid-push (a 200-read push takes ${Math.round(pushMs)} ms): ${unansweredPushes} of ${rounds} pushes killed before answering (batch found whole after restart: ${storedAfterKill.join(', ')}); reads: tablet ${tabletReadIds.length}, pulled ${pulledIds.length}, stored ${all.filter((c) => c.kind === 'read.sign').length}`);
     await after.close();
   }, 120_000);
 });
