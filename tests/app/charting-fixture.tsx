@@ -13,7 +13,7 @@ export async function renderCharting(ui: ComponentChildren, options: { db?: Rhyt
   const db = options.db ?? (await seededDb());
   const unit = options.unit ?? testUnit;
   const result = render(
-    <ChartingContext.Provider value={{ db, deviceId: 'tablet-test', unit, policy: unitPolicyOf(unit), clinician: options.clinician ?? nurse, demoWard: false }}>{ui}</ChartingContext.Provider>,
+    <ChartingContext.Provider value={{ db, deviceId: 'tablet-test', unit, policy: unitPolicyOf(unit), clinician: options.clinician ?? nurse, demoWard: false, sync: null }}>{ui}</ChartingContext.Provider>,
   );
   return { db, ...result };
 }

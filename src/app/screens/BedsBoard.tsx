@@ -27,6 +27,11 @@ export function BedsBoard() {
         </p>
       </div>
       <DecisionSupportNote />
+      {rows.length === 0 ? (
+        <p class="empty-state">
+          This ward has no beds yet. <a href={hrefOf({ screen: 'settings' })}>Add beds in Unit settings</a>.
+        </p>
+      ) : null}
       <ul class="board" aria-label="Beds">
         {rows.map((row) => (
           <BoardCard key={row.bed.id} row={row} timeZone={unit.timeZone} />
