@@ -13,6 +13,7 @@ import { FiguresPanel } from '../components/FiguresPanel.tsx';
 import { FlagBanners } from '../components/FlagBanner.tsx';
 import { ReadCountsFields } from '../components/ReadCountsFields.tsx';
 import { RhythmFields } from '../components/RhythmFields.tsx';
+import { StripTimeFields } from '../components/StripTimeFields.tsx';
 import { leaveFlash } from '../flash-message.ts';
 import { liveRead, messageInWords, stripTimeOf } from '../read-form-values.ts';
 import { go, hrefOf } from '../routes.ts';
@@ -82,6 +83,7 @@ export function AmendRead({ readId }: { readId: string }) {
         <div class="amend-grid">
           <div>
             <h2>Change fields</h2>
+            <StripTimeFields form={form} setForm={setForm} error={strip && !strip.ok ? strip.error.message : null} />
             <ReadCountsFields form={form} setForm={setForm} errorOf={errorOf} />
             <RhythmFields form={form} setForm={setForm} questions={live.analysis?.questions ?? []} />
             <label class="field">

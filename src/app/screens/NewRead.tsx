@@ -12,6 +12,7 @@ import { ReadCountsFields } from '../components/ReadCountsFields.tsx';
 import { ReasonFields } from '../components/ReasonFields.tsx';
 import { RhythmFields } from '../components/RhythmFields.tsx';
 import { StayFacts } from '../components/StayFacts.tsx';
+import { StripTimeFields } from '../components/StripTimeFields.tsx';
 import { leaveFlash } from '../flash-message.ts';
 import { fieldHasText, signingErrors } from '../read-form-checks.ts';
 import { liveRead, messageInWords, stripTimeOf } from '../read-form-values.ts';
@@ -114,24 +115,7 @@ export function NewRead({ bedId }: { bedId: string }) {
           </p>
         </div>
         <LiveSummaryBar analysis={live.analysis} />
-        <fieldset class="form-block">
-          <legend>Strip time (ward clock)</legend>
-          <div class="inline-fields">
-            <label class="field">
-              Date
-              <input type="date" value={form.stripLocalDate} onInput={(e) => draft.setForm((f) => ({ ...f, stripLocalDate: e.currentTarget.value }))} />
-            </label>
-            <label class="field">
-              Time
-              <input type="time" value={form.stripLocalTime} onInput={(e) => draft.setForm((f) => ({ ...f, stripLocalTime: e.currentTarget.value }))} />
-            </label>
-          </div>
-          {errorOf('stripTime') ? (
-            <p class="field-error" role="alert">
-              {errorOf('stripTime')}
-            </p>
-          ) : null}
-        </fieldset>
+        <StripTimeFields form={form} setForm={draft.setForm} error={errorOf('stripTime')} />
         <ReadCountsFields form={form} setForm={draft.setForm} errorOf={errorOf} />
         <RhythmFields form={form} setForm={draft.setForm} questions={live.analysis?.questions ?? []} />
         <ReasonFields form={form} setForm={draft.setForm} reasonTextError={errorOf('reasonText')} />
