@@ -1,6 +1,7 @@
 import { cpus } from 'node:os';
 import * as coreBench from './core-bench.ts';
 import * as handoverBench from './handover-bench.ts';
+import * as serverBench from './server-bench.ts';
 
 /** A bench module prints its own figures, each against a baseline measured in the same run. */
 interface BenchModule {
@@ -12,6 +13,7 @@ interface BenchModule {
 const benchModules: BenchModule[] = [
   { name: 'core', run: coreBench.run },
   { name: 'handover', run: handoverBench.run },
+  { name: 'server', run: serverBench.run },
 ];
 
 // `npm run bench -- core` runs only the named modules.
