@@ -23,6 +23,9 @@ export function appBuildIsStale() {
 export function buildIfStale(log = console.log) {
   if (!appBuildIsStale()) return 0;
   log('Building the tablet app...');
-  const build = spawnSync(process.execPath, ['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn'], { stdio: 'inherit' });
+  // NODE_ENV is forced: under Vitest it is 'test', and Vite would then emit a development build
+  // (import.meta.env.DEV true), which never registers the service worker.
+  const env = { ...process.env, NODE_ENV: 'production' };
+  const build = spawnSync(process.execPath, ['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn'], { stdio: 'inherit', env });
   return build.status ?? 1;
 }
