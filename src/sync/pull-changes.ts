@@ -3,8 +3,8 @@ import type { ApplySummary } from './apply-server-changes.ts';
 import { applyServerChanges, syncWriteTables } from './apply-server-changes.ts';
 import type { CallCredentials, ServerConnection } from './server-call.ts';
 import { callServer } from './server-call.ts';
-import { SyncError } from './sync-error.ts';
-import type { PullResponse } from './sync-protocol.ts';
+import { SyncError, isServerRestored, serverRestoredError } from './sync-error.ts';
+import type { PulledChange, PullResponse } from './sync-protocol.ts';
 import { pullPageLimit, pullResponseSchema } from './sync-protocol.ts';
 import type { StoredCursor } from './sync-settings.ts';
 import { cursorKey, readSyncSetting, writeSyncSetting } from './sync-settings.ts';
@@ -40,25 +40,65 @@ export function nextCursor(current: number | string, page: Pick<PullResponse, 'c
 /** Most pages one pull takes before stopping (a server that always says "more" cannot hold the tablet forever). */
 export const maxPagesPerPull = 10_000;
 
+/** Sees every page of fresh changes as it is applied (the restore recovery uses it to learn what the server holds). */
+export type PulledPageObserver = (changes: readonly PulledChange[]) => void;
+
+/**
+ * Whether the server's log still holds, at the tablet's cursor, the very change the tablet
+ * received there. A server restored from a backup forgets changes; once tablets push again it
+ * hands their numbers out anew, so a plain cursor check would pass and the tablet would silently
+ * skip the new changes under those numbers and never re-send what the server lost. An answer
+ * without change ids cannot be checked and is taken as it is.
+ */
+export function anchorStillHolds(changes: readonly PulledChange[], cursor: number, anchorChangeId: string): boolean {
+  const atCursor = changes.find((c) => c.seq === cursor);
+  if (!atCursor) return false;
+  return atCursor.changeId === undefined || atCursor.changeId === anchorChangeId;
+}
+
 /**
  * Pulls the unit's changes after the stored cursor, page by page until the server has no more.
  * Each page's records and the cursor after it are written in one transaction: a crash or a lost
  * connection mid-pull leaves the cursor where the records end, never ahead of them.
+ * The first page also asks again for the change at the cursor, to notice a server restored from a
+ * backup (see anchorStillHolds); that, or the server's own 409 cursor-ahead, ends the pull with a
+ * SyncError for which isServerRestored is true.
  */
-export async function pullChanges(db: RhythmDb, connection: ServerConnection, credentials: CallCredentials, unitId: string, limit: number = pullPageLimit): Promise<PullSummary> {
-  let cursor = await storedCursor(db, unitId);
+export async function pullChanges(
+  db: RhythmDb,
+  connection: ServerConnection,
+  credentials: CallCredentials,
+  unitId: string,
+  limit: number = pullPageLimit,
+  observe?: PulledPageObserver,
+): Promise<PullSummary> {
+  const stored = await readSyncSetting<StoredCursor>(db, cursorKey);
+  let cursor: number | string = stored && stored.unitId === unitId ? stored.cursor : 0;
+  let anchor = stored && stored.unitId === unitId ? stored.anchorChangeId : undefined;
   const summary: PullSummary = { pages: 0, received: 0, cursor, applied: 0, alreadyNewer: 0, held: 0, readsAdded: 0, readsConfirmed: 0 };
   for (let page = 0; page < maxPagesPerPull; page += 1) {
-    const query = `after=${encodeURIComponent(String(cursor))}&limit=${limit}`;
-    const answer = (await callServer(connection, { method: 'GET', path: `/api/sync/pull?${query}`, credentials, schema: pullResponseSchema })) as PullResponse;
+    const checking = page === 0 && typeof cursor === 'number' && cursor > 0 && anchor !== undefined;
+    const askAfter = checking ? (cursor as number) - 1 : cursor;
+    const query = `after=${encodeURIComponent(String(askAfter))}&limit=${limit}`;
+    let answer: PullResponse;
+    try {
+      answer = (await callServer(connection, { method: 'GET', path: `/api/sync/pull?${query}`, credentials, schema: pullResponseSchema })) as PullResponse;
+    } catch (error) {
+      if (isServerRestored(error)) throw serverRestoredError();
+      throw error;
+    }
+    if (checking && !anchorStillHolds(answer.changes, cursor as number, anchor!)) throw serverRestoredError();
     // Changes at or before the cursor are already on the tablet; applying them again would be harmless but is skipped.
     const fresh = typeof cursor === 'number' ? answer.changes.filter((c) => c.seq > (cursor as number)) : answer.changes;
     const after = nextCursor(cursor, { changes: fresh, cursor: answer.cursor });
+    if (after !== cursor) anchor = typeof after === 'number' ? fresh.find((c) => c.seq === after)?.changeId : undefined;
+    const position: StoredCursor = { unitId, cursor: after, ...(anchor === undefined ? {} : { anchorChangeId: anchor }) };
     const applied = await db.transaction('rw', [...syncWriteTables], async () => {
       const result = await applyServerChanges(db, fresh);
-      await writeSyncSetting(db, cursorKey, { unitId, cursor: after } satisfies StoredCursor);
+      await writeSyncSetting(db, cursorKey, position);
       return result;
     });
+    observe?.(fresh);
     summary.pages += 1;
     summary.received += fresh.length;
     summary.applied += applied.applied;
@@ -70,7 +110,8 @@ export async function pullChanges(db: RhythmDb, connection: ServerConnection, cr
     cursor = after;
     summary.cursor = cursor;
     if (!answer.hasMore) return summary;
-    if (!moved) throw new SyncError('malformed', 'The unit server said more changes were waiting but sent none after the cursor; the tablet will ask again later.');
+    // A first page that held only the change at the cursor (a page limit of 1) simply asks again from the cursor.
+    if (!moved && !checking) throw new SyncError('malformed', 'The unit server said more changes were waiting but sent none after the cursor; the tablet will ask again later.');
   }
   return summary;
 }

@@ -53,7 +53,8 @@ export async function waitingRows(db: RhythmDb, limit: number): Promise<OutboxRo
   return rows.sort((a, b) => (a.seq ?? 0) - (b.seq ?? 0)).slice(0, limit);
 }
 
-async function setRecordStatus(db: RhythmDb, change: Change, answer: { status: 'accepted' } | { status: 'rejected' | 'pending'; reason: string }): Promise<void> {
+/** Writes a change's answer onto its record (read, amendment or handover), where the nurse sees it. */
+export async function setRecordStatus(db: RhythmDb, change: Change, answer: { status: 'accepted' } | { status: 'rejected' | 'pending'; reason: string }): Promise<void> {
   const patch = answer.status === 'accepted' ? { syncStatus: 'accepted' as const, rejectReason: undefined } : { syncStatus: answer.status, rejectReason: answer.reason };
   if (change.kind === 'read.sign') await db.reads.update(change.record.id, patch);
   else if (change.kind === 'amendment.add') await db.amendments.update(change.record.id, patch);
@@ -66,7 +67,7 @@ async function setRecordStatus(db: RhythmDb, change: Change, answer: { status: '
  * refusal) the version before the refused edit. A refused handover keeps the nurse's text on
  * screen with its reason instead, since it is clinical writing the nurse must see and redo.
  */
-async function settleRecord(db: RhythmDb, kind: PutKind, id: string, refused: boolean): Promise<void> {
+export async function settleRecord(db: RhythmDb, kind: PutKind, id: string, refused: boolean): Promise<void> {
   const stillWaiting = (await db.outbox.where('status').anyOf('pending', 'sending').toArray()).some((r) => r.kind === kind && r.change.record.id === id);
   if (stillWaiting) return;
   if (refused && kind === 'handover.put') return;

@@ -11,8 +11,11 @@ import type { ServerConnection, SyncFetch } from './server-call.ts';
 import { defaultRequestTimeoutMs } from './server-call.ts';
 import { credentialsOf, currentSession, dropSession } from './server-session.ts';
 import type { SyncErrorKind } from './sync-error.ts';
-import { SyncError } from './sync-error.ts';
-import { lastSyncedKey, readSyncSetting, writeSyncSetting } from './sync-settings.ts';
+import { SyncError, isServerRestored } from './sync-error.ts';
+import { beginRecovery, currentRecovery, finishRecoveryIfSent, pullAndSortAfterRestore } from './recover-after-restore.ts';
+import { refusedCounts } from './refused-changes.ts';
+import type { RestoreRecovery } from './sync-settings.ts';
+import { lastSyncedKey, readSyncSetting, restoreRecoveryKey, writeSyncSetting } from './sync-settings.ts';
 
 /** Everything the status line needs, always current. */
 export interface SyncState {
@@ -20,10 +23,14 @@ export interface SyncState {
   lastSyncedAtMs: number | null;
   /** Outbox changes waiting to send. */
   pendingCount: number;
-  /** Changes the server refused; they stay on the tablet with the reason. */
+  /** Changes the server refused that no nurse has marked as seen; they stay on the tablet with the reason. */
   rejectedCount: number;
   /** Of those, signed reads. */
   rejectedReadCount: number;
+  /** Refused changes already marked as seen (still kept, listed under "seen"). */
+  seenRejectedCount: number;
+  /** A recovery after the unit server was restored from a backup, while under way and for a while after. */
+  restore: RestoreNotice | null;
   lastError: string | null;
   lastErrorKind: SyncErrorKind | null;
   running: boolean;
@@ -33,6 +40,14 @@ export interface SyncState {
   /** When the next automatic try is due, if one is planned. */
   nextRetryAtMs: number | null;
   failuresInRow: number;
+}
+
+/** What the sync line says about a unit server restore. */
+export interface RestoreNotice {
+  phase: RestoreRecovery['phase'];
+  detectedAtMs: number;
+  resentCount: number;
+  doneAtMs: number | null;
 }
 
 /** What one run did: both counts on success, or the error that stopped it. */
@@ -74,6 +89,14 @@ export interface SyncEngine {
   refresh(): Promise<void>;
 }
 
+function noticeOf(recovery: RestoreRecovery): RestoreNotice {
+  return { phase: recovery.phase, detectedAtMs: recovery.detectedAtMs, resentCount: recovery.resentCount, doneAtMs: recovery.doneAtMs };
+}
+
+function addPushSummaries(a: PushSummary, b: PushSummary): PushSummary {
+  return { batches: a.batches + b.batches, accepted: a.accepted + b.accepted, rejected: a.rejected + b.rejected, deferred: b.deferred, deferredReason: b.deferredReason ?? a.deferredReason };
+}
+
 /** Default time between runs while all is well. */
 export const defaultSyncIntervalMs = 60_000;
 /** Default wait after a new change before sending it. */
@@ -103,6 +126,8 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
     pendingCount: 0,
     rejectedCount: 0,
     rejectedReadCount: 0,
+    seenRejectedCount: 0,
+    restore: null,
     lastError: null,
     lastErrorKind: null,
     running: false,
@@ -139,8 +164,9 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
 
   const counts = async () => {
     const waiting = await db.outbox.where('status').anyOf('pending', 'sending').count();
-    const rejected = await db.outbox.where('status').equals('rejected').toArray();
-    return { pendingCount: waiting, rejectedCount: rejected.length, rejectedReadCount: rejected.filter((r) => r.kind === 'read.sign').length };
+    const refused = await refusedCounts(db);
+    const recovery = await readSyncSetting<RestoreRecovery>(db, restoreRecoveryKey);
+    return { pendingCount: waiting, rejectedCount: refused.unseen, rejectedReadCount: refused.unseenReads, seenRejectedCount: refused.seen, restore: recovery ? noticeOf(recovery) : null };
   };
 
   const refresh = async () => {
@@ -157,8 +183,26 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       const session = await currentSession(db);
       if (!credentials || !session) throw new SyncError('signed-out', 'Sign in to the unit server to send reads; they are safe on the tablet until then.');
       if (!isOnline()) throw offlineError();
-      const pushed = await pushOutbox(db, connection, credentials);
-      const pulled = await pullChanges(db, connection, credentials, session.user.unitId);
+      const unitId = session.user.unitId;
+      // A recovery interrupted before it knew what the server lost finishes that first, so nothing is sent twice needlessly.
+      const interrupted = await currentRecovery(db, unitId);
+      if (interrupted?.phase === 'pulling') await pullAndSortAfterRestore(db, connection, credentials, interrupted);
+      let pushed = await pushOutbox(db, connection, credentials);
+      let pulled: PullSummary;
+      try {
+        pulled = await pullChanges(db, connection, credentials, unitId);
+      } catch (error) {
+        if (!isServerRestored(error)) throw error;
+        // The unit server went back to a backup: read its whole log again, re-send what it lost, then pull what that made.
+        const begun = await beginRecovery(db, unitId, now());
+        set({ restore: noticeOf(begun) });
+        const sorted = await pullAndSortAfterRestore(db, connection, credentials, begun);
+        set({ restore: noticeOf(sorted.recovery) });
+        pushed = addPushSummaries(pushed, await pushOutbox(db, connection, credentials));
+        pulled = await pullChanges(db, connection, credentials, unitId);
+      }
+      const recovery = await currentRecovery(db, unitId);
+      if (recovery) await finishRecoveryIfSent(db, recovery, now());
       await adoptUnit(db, session.user.unitId);
       const syncedAtMs = now();
       await writeSyncSetting(db, lastSyncedKey, syncedAtMs);

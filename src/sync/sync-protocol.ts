@@ -63,7 +63,8 @@ const derivedSchema = z.looseObject({
   defaultQtcFormula: z.string(),
 });
 
-const pulledBase = { seq: seqSchema, serverTimeMs: z.number().int().nonnegative() };
+// The change id lets the tablet check, on its next pull, that the change at its cursor is still the one it received.
+const pulledBase = { seq: seqSchema, changeId: z.string().min(1).max(200).optional(), serverTimeMs: z.number().int().nonnegative() };
 const optionalDerived = derivedSchema.nullable().optional();
 
 /** One change of the unit as the server logged it, with the record validated by the shared schemas. */

@@ -25,6 +25,32 @@ export interface StoredDevice {
 export interface StoredCursor {
   unitId: string;
   cursor: number | string;
+  /**
+   * The change id of the change numbered `cursor`, as the server sent it. The next pull asks for
+   * that change again and checks it is still the same one: a server restored from a backup and
+   * then written to again numbers new changes with seqs this tablet has already passed.
+   */
+  anchorChangeId?: string;
+}
+
+/** Where a tablet stands in re-sending its work after the unit server was restored from a backup. */
+export interface RestoreRecovery {
+  unitId: string;
+  detectedAtMs: number;
+  /** pulling: reading the whole log again; sending: re-sending what the server lost; done: all back. */
+  phase: 'pulling' | 'sending' | 'done';
+  /** Outbox rows accepted before the restore, put back to wait while the tablet checks which the server still holds. */
+  requeuedSeqs: number[];
+  /** How many of them the server no longer held and were sent again. */
+  resentCount: number;
+  doneAtMs: number | null;
+}
+
+/** A refused change the nurse has marked as seen; it stays on the tablet and in the list under "seen". */
+export interface RefusedSeen {
+  seenAtMs: number;
+  seenById: string;
+  seenByName: string;
 }
 
 /**
@@ -45,11 +71,17 @@ export const deviceKey = 'sync.device';
 export const cursorKey = 'sync.pullCursor';
 /** Key of when a push and pull last both finished, by this tablet's clock. */
 export const lastSyncedKey = 'sync.lastSyncedAtMs';
+/** Key of the recovery after a unit server restore (RestoreRecovery); absent when there was none. */
+export const restoreRecoveryKey = 'sync.restoreRecovery';
+/** Key of the refused changes marked as seen, by change id (Record<string, RefusedSeen>). */
+export const refusedSeenKey = 'sync.refusedSeen';
 /** Key of the ids of server accounts that can unlock this tablet offline. */
 export const serverAccountIdsKey = 'sync.serverAccountIds';
 
+/** Common start of every server-version key. */
+export const serverVersionKeyPrefix = 'sync.serverVersion.';
 /** Key of the latest server version of one record. */
-export const serverVersionKey = (kind: ChangeKind, id: string): string => `sync.serverVersion.${kind}.${id}`;
+export const serverVersionKey = (kind: ChangeKind, id: string): string => `${serverVersionKeyPrefix}${kind}.${id}`;
 
 /** One of the sync engine's settings, or undefined when never set. */
 export async function readSyncSetting<T>(db: RhythmDb, key: string): Promise<T | undefined> {

@@ -42,9 +42,21 @@ function lastSyncedText(state: SyncState, nowMs: number, timeZone: string): stri
   return `last synced ${sameDay ? localClockText(state.lastSyncedAtMs, timeZone) : localDateTimeText(state.lastSyncedAtMs, timeZone)}`;
 }
 
+/** How long after a restore recovery ends the sync line still mentions it. */
+export const restoreNoticeAfterDoneMs = 60 * 60_000;
+
+/** The sentence about a unit server restore, or null when there is nothing to say. */
+export function restoreText(restore: SyncState['restore'], nowMs: number): string | null {
+  if (!restore) return null;
+  if (restore.phase !== 'done') return 'The unit server was restored from a backup; this tablet is re-sending its reads';
+  if (restore.doneAtMs === null || nowMs - restore.doneAtMs > restoreNoticeAfterDoneMs) return null;
+  if (restore.resentCount === 0) return 'The unit server was restored from a backup; it still held everything from this tablet';
+  return `The unit server was restored from a backup; this tablet re-sent ${plural(restore.resentCount, 'change', 'changes')} it had lost`;
+}
+
 /**
  * The always-visible sync line, most urgent fact first: refused changes (the nurse has to act),
- * then sign-in, then waiting changes and why, then all clear.
+ * then a unit server restore, then sign-in, then waiting changes and why, then all clear.
  */
 export function syncStatusText(state: SyncState, nowMs: number, timeZone: string): SyncStatusText {
   const parts: string[] = [];
@@ -53,6 +65,11 @@ export function syncStatusText(state: SyncState, nowMs: number, timeZone: string
     const what = state.rejectedReadCount === state.rejectedCount ? plural(state.rejectedCount, 'read', 'reads') : plural(state.rejectedCount, 'change', 'changes');
     parts.push(`${what} refused by the server — open ${state.rejectedCount === 1 ? 'it' : 'them'} to see why`);
     tone = 'problem';
+  }
+  const restore = restoreText(state.restore, nowMs);
+  if (restore) {
+    parts.push(restore);
+    if (tone === 'ok' && state.restore?.phase !== 'done') tone = 'waiting';
   }
   const waiting = state.pendingCount > 0 ? `${state.pendingCount} waiting to send` : null;
   const retryText = state.signedIn && !state.running && state.nextRetryAtMs !== null && state.lastError !== null ? `retrying ${waitText(state.nextRetryAtMs, nowMs)}` : null;

@@ -9,9 +9,9 @@ describe('pullResponseSchema', () => {
     expect(pullResponseSchema.parse({ changes: [], cursor: 'opaque-7', hasMore: false }).cursor).toBe('opaque-7');
   });
 
-  it('takes a change with extra fields the tablet does not use', () => {
+  it('takes a change with extra fields the tablet does not use, and keeps its change id for the check at the cursor', () => {
     const parsed = pullResponseSchema.parse({ changes: [{ seq: 3, changeId: 'c-00000003', kind: 'bed.put', record: bed, serverTimeMs: t0, deviceTimeMs: t0 }], cursor: '3', hasMore: false });
-    expect(parsed.changes[0]).toEqual({ seq: 3, kind: 'bed.put', record: bed, serverTimeMs: t0 });
+    expect(parsed.changes[0]).toEqual({ seq: 3, changeId: 'c-00000003', kind: 'bed.put', record: bed, serverTimeMs: t0 });
   });
 
   it('refuses a record that breaks the shared schema, a seq of 0, and an unknown kind', () => {

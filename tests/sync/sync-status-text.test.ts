@@ -8,6 +8,8 @@ const idle: SyncState = {
   pendingCount: 0,
   rejectedCount: 0,
   rejectedReadCount: 0,
+  seenRejectedCount: 0,
+  restore: null,
   lastError: null,
   lastErrorKind: null,
   running: false,
@@ -64,6 +66,40 @@ describe('syncStatusText', () => {
   it('reports a failed check even when nothing waits', () => {
     const state: SyncState = { ...idle, lastError: 'slow', lastErrorKind: 'timeout', nextRetryAtMs: nowMs + 240_000 };
     expect(syncStatusText(state, nowMs, zone).line).toBe('All reads sent · last synced 14:02 — the unit server is slow to answer, retrying in 4 min');
+  });
+});
+
+describe('the sync line after a unit server restore', () => {
+  const restoring: SyncState['restore'] = { phase: 'sending', detectedAtMs: nowMs - 60_000, resentCount: 3, doneAtMs: null };
+
+  it('says the tablet is re-sending while the recovery is under way, before what waits', () => {
+    expect(syncStatusText({ ...idle, restore: restoring, pendingCount: 3 }, nowMs, zone)).toMatchObject({
+      line: 'The unit server was restored from a backup; this tablet is re-sending its reads · 3 waiting to send · last synced 14:02',
+      tone: 'waiting',
+    });
+  });
+
+  it('says how many changes went again once done, for an hour, then says nothing more of it', () => {
+    const done: SyncState['restore'] = { ...restoring, phase: 'done', doneAtMs: nowMs - 10 * 60_000 };
+    expect(syncStatusText({ ...idle, restore: done }, nowMs, zone)).toMatchObject({
+      line: 'The unit server was restored from a backup; this tablet re-sent 3 changes it had lost · All reads sent · last synced 14:02',
+      tone: 'ok',
+    });
+    expect(syncStatusText({ ...idle, restore: { ...done, resentCount: 0 } }, nowMs, zone).line).toBe(
+      'The unit server was restored from a backup; it still held everything from this tablet · All reads sent · last synced 14:02',
+    );
+    expect(syncStatusText({ ...idle, restore: done }, nowMs + 51 * 60_000, zone).line).toBe('All reads sent · last synced 14:02');
+  });
+
+  it('still puts refused reads first', () => {
+    expect(syncStatusText({ ...idle, restore: restoring, rejectedCount: 1, rejectedReadCount: 1 }, nowMs, zone).line).toMatch(/^1 read refused by the server — open it to see why · The unit server was restored/);
+  });
+});
+
+describe('refused changes already seen', () => {
+  it('no longer count as news: the line is all clear and only unseen ones are counted', () => {
+    expect(syncStatusText({ ...idle, seenRejectedCount: 2 }, nowMs, zone).line).toBe('All reads sent · last synced 14:02');
+    expect(syncStatusText({ ...idle, seenRejectedCount: 2, rejectedCount: 1, rejectedReadCount: 1 }, nowMs, zone).line).toBe('1 read refused by the server — open it to see why · last synced 14:02');
   });
 });
 

@@ -2,6 +2,7 @@ import { fireEvent, render, screen, waitFor } from '@testing-library/preact';
 import { h } from 'preact';
 import { describe, expect, it } from 'vitest';
 import { verifyPin } from '../../src/store/clinicians.ts';
+import { listRefusedChanges, markRefusedSeen } from '../../src/sync/refused-changes.ts';
 import { currentDevice, currentSession } from '../../src/sync/server-session.ts';
 import { ServerSignIn } from '../../src/sync/ui/ServerSignIn.tsx';
 import { SyncStatusBar } from '../../src/sync/ui/SyncStatusBar.tsx';
@@ -50,6 +51,28 @@ describe('SyncStatusBar', () => {
     fireEvent.click(screen.getByRole('button', { name: 'Show refused' }));
     expect(opened).toBe(1);
     engine.stop();
+  });
+});
+
+describe('SyncStatusBar with refused changes already seen', () => {
+  it('says all is sent, and keeps a quiet way to the refused list', async () => {
+    const server = await newServer();
+    const clock = new ManualClock(t0);
+    const db = await newTablet();
+    await signInTablet(db, server, nurseAsh.id);
+    await signReadAt(db, t0, { notes: 'refuse' });
+    server.rejectWhen = (change) => (change.kind === 'read.sign' && change.record.notes === 'refuse' ? 'Refused for the test.' : null);
+    const engine = await engineFor(db, server, clock);
+    await engine.syncNow();
+    const [refused] = await listRefusedChanges(db);
+    await markRefusedSeen(db, refused!.changeId, { id: nurseAsh.id, name: nurseAsh.name }, t0);
+    await engine.refresh();
+    let opened = 0;
+    render(h(SyncStatusBar, { engine, timeZone: 'Europe/London', now: clock.now, onShowRefused: () => { opened += 1; } }));
+    expect(screen.getByRole('status').textContent).toBe('All reads sent · last synced 08:00');
+    expect(screen.queryByRole('button', { name: 'Show refused' })).toBeNull();
+    fireEvent.click(screen.getByRole('button', { name: 'Refused changes (1 seen)' }));
+    expect(opened).toBe(1);
   });
 });
 

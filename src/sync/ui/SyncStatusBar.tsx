@@ -40,6 +40,11 @@ export function SyncStatusBar({ engine, timeZone, onShowRefused, now = Date.now 
         <button type="button" class="button button--small" onClick={onShowRefused}>
           Show refused
         </button>
+      ) : state.seenRejectedCount > 0 && onShowRefused ? (
+        // Seen refusals are no longer news, but they stay one tap away.
+        <button type="button" class="button button--small button-quiet" onClick={onShowRefused}>
+          Refused changes ({state.seenRejectedCount} seen)
+        </button>
       ) : null}
       {state.signedIn ? (
         <button type="button" class="button button--small" disabled={state.running} onClick={() => void engine.syncNow()}>
