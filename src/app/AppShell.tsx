@@ -2,13 +2,18 @@ import type { PersistenceState } from '../store/persistent-storage.ts';
 import { useCharting } from './app-context.ts';
 import { SyncStatusBar } from '../sync/ui/SyncStatusBar.tsx';
 import { UpdateNotice } from './components/UpdateNotice.tsx';
-import { hrefOf, useRoute } from './routes.ts';
+import { go, hrefOf, useRoute } from './routes.ts';
 import { AmendRead } from './screens/AmendRead.tsx';
 import { BedPage } from './screens/BedPage.tsx';
 import { BedsBoard } from './screens/BedsBoard.tsx';
 import { NewRead } from './screens/NewRead.tsx';
 import { StartMonitoring } from './screens/StartMonitoring.tsx';
 import { UnitSettings } from './screens/UnitSettings.tsx';
+import { PrintView } from './print/PrintView.tsx';
+import { BedHandover } from './screens/handover/BedHandover.tsx';
+import { HandoverDesk } from './screens/handover/HandoverDesk.tsx';
+import { AuditTrail } from './screens/audit/AuditTrail.tsx';
+import { RefusedChanges } from './screens/refused/RefusedChanges.tsx';
 import { useIdleLock } from './use-idle-lock.ts';
 
 const storageWords: Record<PersistenceState, string> = {
@@ -22,6 +27,8 @@ export function AppShell({ onLock, storage }: { onLock: () => void; storage: Per
   const { unit, clinician, demoWard, sync } = useCharting();
   const route = useRoute();
   useIdleLock(unit.idleLockMinutes, onLock);
+  // A printout is drawn without the app's header and navigation, so none of it reaches paper.
+  if (route.screen === 'print') return <PrintView bedId={route.bedId} shiftKey={route.shiftKey} paper={route.paper} />;
   return (
     <div class="app">
       <header class="top">
@@ -33,9 +40,21 @@ export function AppShell({ onLock, storage }: { onLock: () => void; storage: Per
           <a href={hrefOf({ screen: 'board' })} aria-current={route.screen === 'board' ? 'page' : undefined}>
             Beds
           </a>
+          <a
+            href={hrefOf({ screen: 'handover', shiftKey: null })}
+            class={clinician.role === 'nurse' ? undefined : 'nav-emphasis'}
+            aria-current={route.screen === 'handover' || route.screen === 'handover-bed' ? 'page' : undefined}
+          >
+            Handover desk
+          </a>
           <a href={hrefOf({ screen: 'settings' })} aria-current={route.screen === 'settings' ? 'page' : undefined}>
             Unit settings
           </a>
+          {clinician.role === 'unit-admin' && !demoWard ? (
+            <a href={hrefOf({ screen: 'audit' })} aria-current={route.screen === 'audit' ? 'page' : undefined}>
+              Audit trail
+            </a>
+          ) : null}
         </nav>
         <div class="top-who">
           <span>
@@ -47,7 +66,7 @@ export function AppShell({ onLock, storage }: { onLock: () => void; storage: Per
         </div>
         {storage ? <p class={`storage storage-${storage}`}>{storageWords[storage]}</p> : null}
       </header>
-      {sync && !demoWard ? <SyncStatusBar engine={sync} timeZone={unit.timeZone} /> : null}
+      {sync && !demoWard ? <SyncStatusBar engine={sync} timeZone={unit.timeZone} onShowRefused={() => go({ screen: 'refused' })} /> : null}
       <UpdateNotice />
       <main class="screen">
         {route.screen === 'board' ? <BedsBoard /> : null}
@@ -56,6 +75,10 @@ export function AppShell({ onLock, storage }: { onLock: () => void; storage: Per
         {route.screen === 'start-monitoring' ? <StartMonitoring bedId={route.bedId} /> : null}
         {route.screen === 'amend' ? <AmendRead readId={route.readId} /> : null}
         {route.screen === 'settings' ? <UnitSettings /> : null}
+        {route.screen === 'refused' ? <RefusedChanges /> : null}
+        {route.screen === 'audit' ? <AuditTrail /> : null}
+        {route.screen === 'handover' ? <HandoverDesk shiftKey={route.shiftKey} /> : null}
+        {route.screen === 'handover-bed' ? <BedHandover bedId={route.bedId} shiftKey={route.shiftKey} /> : null}
       </main>
     </div>
   );

@@ -1,4 +1,6 @@
 import { useEffect, useState } from 'preact/hooks';
+import type { HandoverRoute } from './handover-routes.ts';
+import { handoverHrefOf, parseHandoverRoute } from './handover-routes.ts';
 
 /** The screens, addressed by hash so they open from the service worker's cached shell with no network. */
 export type Route =
@@ -7,10 +9,15 @@ export type Route =
   | { screen: 'new-read'; bedId: string }
   | { screen: 'start-monitoring'; bedId: string }
   | { screen: 'amend'; readId: string }
-  | { screen: 'settings' };
+  | { screen: 'settings' }
+  | { screen: 'refused' }
+  | { screen: 'audit' }
+  | HandoverRoute;
 
 /** The route a location hash names; anything unknown opens the board. */
 export function parseRoute(hash: string): Route {
+  const handover = parseHandoverRoute(hash);
+  if (handover) return handover;
   const parts = hash.replace(/^#\/?/, '').split('/').filter(Boolean).map(decodeURIComponent);
   const [first, id, action] = parts;
   if (first === 'beds' && id && action === 'read') return { screen: 'new-read', bedId: id };
@@ -18,6 +25,8 @@ export function parseRoute(hash: string): Route {
   if (first === 'beds' && id) return { screen: 'bed', bedId: id };
   if (first === 'reads' && id && action === 'amend') return { screen: 'amend', readId: id };
   if (first === 'settings') return { screen: 'settings' };
+  if (first === 'refused') return { screen: 'refused' };
+  if (first === 'audit') return { screen: 'audit' };
   return { screen: 'board' };
 }
 
@@ -36,6 +45,14 @@ export function hrefOf(route: Route): string {
       return `#/reads/${encodeURIComponent(route.readId)}/amend`;
     case 'settings':
       return '#/settings';
+    case 'refused':
+      return '#/refused';
+    case 'audit':
+      return '#/audit';
+    case 'handover':
+    case 'handover-bed':
+    case 'print':
+      return handoverHrefOf(route);
   }
 }
 
