@@ -27,10 +27,14 @@ export interface SyncState {
   rejectedCount: number;
   /** Of those, signed reads. */
   rejectedReadCount: number;
-  /** Refused changes already marked as seen (still kept, listed under "seen"). */
-  seenRejectedCount: number;
+  /**
+   * Refused changes already marked as seen (still kept, listed under "seen"). This and `restore`
+   * came later than the rest and may be absent from a state built elsewhere (a screen's test
+   * double); absent reads as none.
+   */
+  seenRejectedCount?: number | undefined;
   /** A recovery after the unit server was restored from a backup, while under way and for a while after. */
-  restore: RestoreNotice | null;
+  restore?: RestoreNotice | null | undefined;
   lastError: string | null;
   lastErrorKind: SyncErrorKind | null;
   running: boolean;

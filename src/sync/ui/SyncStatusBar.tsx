@@ -40,7 +40,7 @@ export function SyncStatusBar({ engine, timeZone, onShowRefused, now = Date.now 
         <button type="button" class="button button--small" onClick={onShowRefused}>
           Show refused
         </button>
-      ) : state.seenRejectedCount > 0 && onShowRefused ? (
+      ) : (state.seenRejectedCount ?? 0) > 0 && onShowRefused ? (
         // Seen refusals are no longer news, but they stay one tap away.
         <button type="button" class="button button--small button-quiet" onClick={onShowRefused}>
           Refused changes ({state.seenRejectedCount} seen)
