@@ -5,6 +5,7 @@ import type { ShiftInstance } from '../core/shifts.ts';
 import type { ExportProblem, StayReads } from '../core/stay-reads.ts';
 import type { UnitPolicy } from '../core/unit-policy.ts';
 import { localDateAt } from '../core/shifts.ts';
+import { bedText } from './handover-bed-text.ts';
 
 // Exports are made by the core on the tablet, so they work offline and say exactly what the screen
 // says. File names carry the bed and the date, never the patient's alias: downloads folders and
@@ -50,7 +51,7 @@ function build(format: ExportFormat, unit: Unit, policy: UnitPolicy, stays: read
 /** Every read of one stay, as a file named for the unit, the bed and the stay's first day. */
 export function stayExportFile(format: ExportFormat, input: { unit: Unit; policy: UnitPolicy; stayReads: StayReads; nowMs: number }): ExportFile {
   const { unit, stayReads } = input;
-  const baseName = `${slug(unit.name)}_bed-${slug(stayReads.bedLabel)}_stay-from-${localDateAt(stayReads.stay.startMs, unit.timeZone)}`;
+  const baseName = `${slug(unit.name)}_${slug(bedText(stayReads.bedLabel))}_stay-from-${localDateAt(stayReads.stay.startMs, unit.timeZone)}`;
   return build(format, unit, input.policy, [stayReads], input.nowMs, null, baseName);
 }
 

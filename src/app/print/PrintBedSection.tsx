@@ -5,6 +5,7 @@ import type { UnitPolicy } from '../../core/unit-policy.ts';
 import { localDateTimeText } from '../../core/zoned-time-text.ts';
 import { severityWords } from '../components/SeverityMark.tsx';
 import type { DeskRow } from '../handover-desk-rows.ts';
+import { bedText } from '../handover-bed-text.ts';
 import { flagShortText } from '../handover-flag-text.ts';
 import { shiftLengthText } from '../handover-shift.ts';
 import { handoverStatusWords } from '../screens/handover/HandoverStatusChip.tsx';
@@ -54,11 +55,6 @@ export function PrintFrame({ header, children, className }: { header: ComponentC
       </tbody>
     </table>
   );
-}
-
-/** 'Bed 3' as 'Bed 3', and a bare '12' as 'Bed 12', so the header never reads 'Bed: Bed 3'. */
-export function bedText(label: string): string {
-  return /^bed\b/i.test(label.trim()) ? label : `Bed ${label}`;
 }
 
 /** The page header: unit, bed, patient alias, shift, printed by and at. */

@@ -2,7 +2,8 @@ import { localClockText, localDateTimeText } from '../../core/zoned-time-text.ts
 import type { DeskRow } from '../handover-desk-rows.ts';
 import { handoverStatusWords } from '../screens/handover/HandoverStatusChip.tsx';
 import type { PrintContext } from './PrintBedSection.tsx';
-import { PrintFrame, PrintHeader, bedText } from './PrintBedSection.tsx';
+import { bedText } from '../handover-bed-text.ts';
+import { PrintFrame, PrintHeader } from './PrintBedSection.tsx';
 
 function scheduleText(row: DeskRow, ctx: PrintContext): string {
   const s = row.summary?.schedule;
