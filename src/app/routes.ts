@@ -70,6 +70,9 @@ export function useRoute(): Route {
       window.scrollTo?.(0, 0);
     };
     window.addEventListener('hashchange', onChange);
+    // A hash change between the first render and this listener (a tap right after unlocking) would otherwise be lost.
+    const now = parseRoute(location.hash);
+    setRoute((shown) => (JSON.stringify(shown) === JSON.stringify(now) ? shown : now));
     return () => window.removeEventListener('hashchange', onChange);
   }, []);
   return route;
