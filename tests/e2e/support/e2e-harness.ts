@@ -99,13 +99,17 @@ export interface Tablet {
   close(): Promise<void>;
 }
 
-/** A headless Chromium "tablet" with its own persistent profile (so the service worker and IndexedDB behave as installed). */
-export async function openTablet(viewport = { width: 1280, height: 800 }): Promise<Tablet> {
+/**
+ * A headless Chromium "tablet" with its own persistent profile (so the service worker and IndexedDB behave as installed).
+ * `device` sets the tablet's language (navigator.language) and clock zone.
+ */
+export async function openTablet(viewport = { width: 1280, height: 800 }, device: { locale?: string; timezoneId?: string } = {}): Promise<Tablet> {
   const profileDir = mkdtempSync(join(tmpdir(), 'rl-e2e-profile-'));
   const context = await chromium.launchPersistentContext(profileDir, {
     executablePath: chromiumPath,
     headless: true,
     viewport,
+    ...device,
     args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
   });
   return {
