@@ -15,6 +15,7 @@ import {
   signRead,
   unlock,
   waitForServiceWorkerControl,
+  wardClock,
 } from './tablet-steps.ts';
 
 const run = chromiumAvailable();
@@ -38,7 +39,8 @@ describe.runIf(run)('the ward tablet offline, from the first visit', () => {
   beforeAll(async () => {
     ensureAppBuilt();
     server = await startUnitServer();
-    tablet = await openTablet({ width: 1280, height: 800 });
+    // A tablet set up as the ward's would be: Irish English, the ward's clock.
+    tablet = await openTablet({ width: 1280, height: 800 }, { locale: 'en-IE', timezoneId: ward.timeZone });
     page = await tablet.context.newPage();
   });
   // A failed step leaves a picture of the screen it failed on.
@@ -83,7 +85,10 @@ describe.runIf(run)('the ward tablet offline, from the first visit', () => {
 
   it('shows each figure as the counts are typed and signs a first read on Bed 1', async () => {
     await openNewRead(page, 'Bed 1');
-    await setStripTime(page, Date.now() - 30 * 60_000, ward.timeZone);
+    const stripMs = Date.now() - 30 * 60_000;
+    await setStripTime(page, stripMs, ward.timeZone);
+    // Whatever the pickers' language, the strip time is echoed on the 24-hour ward clock.
+    expect(await page.locator('.strip-time-words').textContent()).toMatch(new RegExp(`^Strip time: \\w{3} \\d{1,2} \\w{3}, ${wardClock(stripMs, ward.timeZone).time} \\(24-hour ward clock\\)$`));
     await countInput(page, 'R-R count 1').fill('20');
     // 1500 / 20 small boxes = 75 bpm at 25 mm/s (common practice, no source; clinical reference 1.x: the 1500 rule)
     await expect.poll(() => page.getByTestId('figure-rate').textContent()).toBe('75 bpm');
