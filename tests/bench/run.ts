@@ -1,7 +1,9 @@
 import { cpus } from 'node:os';
+import * as appBench from './app-bench.ts';
 import * as coreBench from './core-bench.ts';
 import * as handoverBench from './handover-bench.ts';
 import * as serverBench from './server-bench.ts';
+import * as unitViewBench from './unit-view-bench.ts';
 
 /** A bench module prints its own figures, each against a baseline measured in the same run. */
 interface BenchModule {
@@ -14,6 +16,8 @@ const benchModules: BenchModule[] = [
   { name: 'core', run: coreBench.run },
   { name: 'handover', run: handoverBench.run },
   { name: 'server', run: serverBench.run },
+  { name: 'app', run: appBench.run },
+  { name: 'unit-view', run: unitViewBench.run },
 ];
 
 // `npm run bench -- core` runs only the named modules.

@@ -39,8 +39,14 @@ function linesToDraw(series: TrendSeries, size: TrendChartSize): ThresholdLine[]
 }
 
 /** 'Tue 19:00' in the unit's zone: a 24 h axis from 19:00 to 19:00 needs the day to be read. */
+const weekdayFormats = new Map<string, Intl.DateTimeFormat>();
 function weekdayClockText(epochMs: number, timeZone: string): string {
-  return new Intl.DateTimeFormat('en-GB', { timeZone, weekday: 'short', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(new Date(epochMs));
+  let format = weekdayFormats.get(timeZone);
+  if (!format) {
+    format = new Intl.DateTimeFormat('en-GB', { timeZone, weekday: 'short', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' });
+    weekdayFormats.set(timeZone, format);
+  }
+  return format.format(new Date(epochMs));
 }
 
 /** Label heights moved apart just enough not to overlap, keeping their order (limits 10 ms apart would otherwise print on top of each other). */
