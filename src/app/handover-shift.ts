@@ -1,7 +1,7 @@
-import { ValidationError } from '../core/field-error.ts';
 import type { Unit } from '../core/records.ts';
+import { shiftFromKey as shiftOfKey } from '../core/shift-key.ts';
 import type { ShiftInstance } from '../core/shifts.ts';
-import { localDateTimeToEpochMs, previousShift, shiftAt } from '../core/shifts.ts';
+import { previousShift, shiftAt } from '../core/shifts.ts';
 import { offsetMinutesAt } from '../core/zoned-time-text.ts';
 import { clockText, dayClockText } from './time-text.ts';
 
@@ -11,18 +11,7 @@ import { clockText, dayClockText } from './time-text.ts';
 
 /** The shift a key names in this unit's pattern and time zone, or null when the key names none. */
 export function shiftFromKey(key: string, unit: Unit): ShiftInstance | null {
-  const match = /^(\d{4}-\d{2}-\d{2})\/(.+)$/.exec(key);
-  if (!match) return null;
-  const [, localDate, name] = match;
-  const definition = unit.shiftPattern.shifts.find((s) => s.name === name);
-  if (!definition || localDate === undefined) return null;
-  try {
-    const shift = shiftAt(localDateTimeToEpochMs(localDate, definition.startLocalTime, unit.timeZone), unit.shiftPattern, unit.timeZone);
-    return shift.key === key ? shift : null;
-  } catch (error) {
-    if (error instanceof ValidationError) return null;
-    throw error;
-  }
+  return shiftOfKey(key, unit.shiftPattern, unit.timeZone);
 }
 
 /** The shift the handover desk shows: the one a route names, else the one under way at nowMs. */

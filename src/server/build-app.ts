@@ -6,6 +6,7 @@ import { installAccessGuard } from './auth/access-guard.ts';
 import { registerAuditRoutes } from './routes/audit-routes.ts';
 import { registerAuthRoutes } from './routes/auth-routes.ts';
 import { registerDeviceRoutes } from './routes/device-routes.ts';
+import { registerExportRoutes } from './routes/export-routes.ts';
 import { registerHealthRoutes } from './routes/health-routes.ts';
 import { registerSyncRoutes } from './routes/sync-routes.ts';
 import { registerUserRoutes } from './routes/user-routes.ts';
@@ -85,6 +86,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   registerUserRoutes(app, userOptions);
   registerSyncRoutes(app, { store, nowMs });
   registerAuditRoutes(app, { store, nowMs });
+  registerExportRoutes(app, { store, nowMs });
   await serveTabletApp(app, settings.distDir);
   await app.ready();
   return app;
