@@ -68,7 +68,7 @@ describe('giving and receiving a handover', () => {
     expect(screen.queryByRole('group', { name: 'Receive this handover' })).toBeNull();
   });
 
-  it('lets the nurse signed in on the tablet receive it with one tap when she did not give it', async () => {
+  it('lets the nurse charting on the tablet receive it with one tap when they did not give it', async () => {
     const { db, view } = await giveAsAnn();
     view.unmount();
     renderDesk(<BedHandover bedId={bed1.id} shiftKey={dayShiftKey} />, { db, clinician: clinicianRow(cara) });
