@@ -72,7 +72,10 @@ export function syncStatusText(state: SyncState, nowMs: number, timeZone: string
     if (tone === 'ok' && state.restore?.phase !== 'done') tone = 'waiting';
   }
   const waiting = state.pendingCount > 0 ? `${state.pendingCount} waiting to send` : null;
-  const retryText = state.signedIn && !state.running && state.nextRetryAtMs !== null && state.lastError !== null ? `retrying ${waitText(state.nextRetryAtMs, nowMs)}` : null;
+  // With the browser itself offline, the return of the network starts the next try, whatever the
+  // backoff says; a countdown would only suggest the tablet is doing something it cannot.
+  const offlineNow = !state.online && state.lastErrorKind === 'unreachable';
+  const retryText = state.signedIn && !state.running && !offlineNow && state.nextRetryAtMs !== null && state.lastError !== null ? `retrying ${waitText(state.nextRetryAtMs, nowMs)}` : null;
   if (!state.signedIn) {
     parts.push(waiting ? `${waiting} — sign in to the unit server to send them` : `Not signed in to the unit server · ${lastSyncedText(state, nowMs, timeZone)}`);
     if (tone === 'ok') tone = 'waiting';
@@ -81,13 +84,15 @@ export function syncStatusText(state: SyncState, nowMs: number, timeZone: string
     if (tone === 'ok') tone = 'waiting';
   } else if (state.lastError !== null && state.lastErrorKind !== null) {
     const reason = shortReason[state.lastErrorKind];
-    parts.push(waiting ? `${waiting} — ${reason}` : `All reads sent · ${lastSyncedText(state, nowMs, timeZone)} — ${reason}`);
+    const waitingReason = offlineNow ? 'offline; they send by themselves when the network is back' : reason;
+    parts.push(waiting ? `${waiting} — ${waitingReason}` : `All reads sent · ${lastSyncedText(state, nowMs, timeZone)} — ${reason}`);
     if (tone === 'ok') tone = 'waiting';
   } else if (waiting) {
     parts.push(`${waiting} · ${lastSyncedText(state, nowMs, timeZone)}`);
     if (tone === 'ok') tone = 'waiting';
   } else if (state.rejectedCount === 0) {
-    parts.push(`All reads sent · ${lastSyncedText(state, nowMs, timeZone)}`);
+    // A refused change already seen is still not on the server, so the line does not claim everything went.
+    parts.push(`${(state.seenRejectedCount ?? 0) > 0 ? 'Nothing waiting to send' : 'All reads sent'} · ${lastSyncedText(state, nowMs, timeZone)}`);
   } else {
     parts.push(lastSyncedText(state, nowMs, timeZone));
   }

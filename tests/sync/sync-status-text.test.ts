@@ -39,6 +39,16 @@ describe('syncStatusText', () => {
     expect(syncStatusText(state, nowMs, zone)).toEqual({ line: '3 waiting to send — offline, retrying in 30 s', text: '3 waiting to send — offline', retryText: 'retrying in 30 s', tone: 'waiting' });
   });
 
+  it('says the reads send by themselves once the network is back when the tablet itself is offline, with no countdown', () => {
+    const state: SyncState = { ...idle, online: false, pendingCount: 2, lastError: 'This tablet is offline.', lastErrorKind: 'unreachable', nextRetryAtMs: nowMs + 2_000, failuresInRow: 1 };
+    expect(syncStatusText(state, nowMs, zone)).toEqual({
+      line: '2 waiting to send — offline; they send by themselves when the network is back',
+      text: '2 waiting to send — offline; they send by themselves when the network is back',
+      retryText: null,
+      tone: 'waiting',
+    });
+  });
+
   it('puts refused reads first, since the nurse has to act on them', () => {
     const state: SyncState = { ...idle, rejectedCount: 1, rejectedReadCount: 1, pendingCount: 2 };
     expect(syncStatusText(state, nowMs, zone)).toMatchObject({ line: '1 read refused by the server — open it to see why · 2 waiting to send · last synced 14:02', tone: 'problem' });
@@ -97,8 +107,8 @@ describe('the sync line after a unit server restore', () => {
 });
 
 describe('refused changes already seen', () => {
-  it('no longer count as news: the line is all clear and only unseen ones are counted', () => {
-    expect(syncStatusText({ ...idle, seenRejectedCount: 2 }, nowMs, zone).line).toBe('All reads sent · last synced 14:02');
+  it('no longer count as news: the line is calm, does not claim every read went, and counts only unseen ones', () => {
+    expect(syncStatusText({ ...idle, seenRejectedCount: 2 }, nowMs, zone)).toMatchObject({ line: 'Nothing waiting to send · last synced 14:02', tone: 'ok' });
     expect(syncStatusText({ ...idle, seenRejectedCount: 2, rejectedCount: 1, rejectedReadCount: 1 }, nowMs, zone).line).toBe('1 read refused by the server — open it to see why · last synced 14:02');
   });
 });

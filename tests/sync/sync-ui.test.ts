@@ -55,7 +55,7 @@ describe('SyncStatusBar', () => {
 });
 
 describe('SyncStatusBar with refused changes already seen', () => {
-  it('says all is sent, and keeps a quiet way to the refused list', async () => {
+  it('says nothing waits to send, and keeps a quiet way to the refused list', async () => {
     const server = await newServer();
     const clock = new ManualClock(t0);
     const db = await newTablet();
@@ -69,7 +69,7 @@ describe('SyncStatusBar with refused changes already seen', () => {
     await engine.refresh();
     let opened = 0;
     render(h(SyncStatusBar, { engine, timeZone: 'Europe/London', now: clock.now, onShowRefused: () => { opened += 1; } }));
-    expect(screen.getByRole('status').textContent).toBe('All reads sent · last synced 08:00');
+    expect(screen.getByRole('status').textContent).toBe('Nothing waiting to send · last synced 08:00');
     expect(screen.queryByRole('button', { name: 'Show refused' })).toBeNull();
     fireEvent.click(screen.getByRole('button', { name: 'Refused changes (1 seen)' }));
     expect(opened).toBe(1);

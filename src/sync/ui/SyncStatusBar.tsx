@@ -32,10 +32,13 @@ export function SyncStatusBar({ engine, timeZone, onShowRefused, now = Date.now 
   const status = syncStatusText(state, nowMs, timeZone);
   return (
     <div class={`sync-status sync-status--${status.tone}`}>
-      <span role="status" aria-live="polite" class="sync-status__text">
-        {status.text}
+      {/* One inline group, so the countdown reads on as part of the sentence. */}
+      <span class="sync-status__words">
+        <span role="status" aria-live="polite" class="sync-status__text">
+          {status.text}
+        </span>
+        {status.retryText ? <span class="sync-status__retry">, {status.retryText}</span> : null}
       </span>
-      {status.retryText ? <span class="sync-status__retry">, {status.retryText}</span> : null}
       {state.rejectedCount > 0 && onShowRefused ? (
         <button type="button" class="button button--small" onClick={onShowRefused}>
           Show refused
