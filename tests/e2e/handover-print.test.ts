@@ -5,7 +5,7 @@
 // Invented ward, staff and patients.
 import { spawnSync } from 'node:child_process';
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { csvColumns } from '../../src/core/csv-export.ts';
@@ -15,7 +15,6 @@ import { previousShift, shiftAt } from '../../src/core/shifts.ts';
 import { localDateTimeText } from '../../src/core/zoned-time-text.ts';
 import type { Tablet, UnitServer } from './support/e2e-harness.ts';
 import { chromiumAvailable, createAccount, e2eOutputDir, ensureAppBuilt, openTablet, startUnitServer } from './support/e2e-harness.ts';
-import { adminApi, connectAccount, joinWardAsAdmin, openRoute, snapshot, syncLine, unlockAs } from './sync-steps.ts';
 
 const run = chromiumAvailable();
 
@@ -61,6 +60,89 @@ async function wardTablet(baseUrl: string, deviceToken: string, account: { usern
   };
 }
 
+// Tablet steps, driven by accessible names as a nurse would.
+
+/** A new tablet's first visit: the unit admin signs in, enrols it and picks a PIN; ends on the lock screen. */
+async function joinWardAsAdmin(page: Page, url: string, account: { username: string; password: string }, tabletLabel: string, pin: string): Promise<void> {
+  await page.goto(url);
+  // The service worker takes control first, so nothing reloads the page under the form.
+  await page.waitForFunction(() => navigator.serviceWorker.controller !== null, undefined, { timeout: 30_000 });
+  const join = page.locator('section.choice').filter({ has: page.getByRole('heading', { name: 'Join a ward on the unit server' }) });
+  await join.getByLabel('Username').fill(account.username);
+  await join.getByLabel('Password').fill(account.password);
+  await join.getByRole('button', { name: 'Sign in' }).click();
+  await join.getByLabel('Tablet name').fill(tabletLabel);
+  await join.getByRole('button', { name: 'Enrol tablet' }).click();
+  await join.getByLabel('PIN', { exact: true }).fill(pin);
+  await join.getByLabel('PIN again').fill(pin);
+  await join.getByRole('button', { name: 'Save PIN' }).click();
+  await page.getByRole('heading', { name: 'Who is charting?' }).waitFor({ timeout: 30_000 });
+}
+
+/** Picks the clinician on the lock screen and types the PIN; ends behind the lock. */
+async function unlockAs(page: Page, name: string, pin: string): Promise<void> {
+  await page.getByRole('heading', { name: 'Who is charting?' }).waitFor();
+  await page.getByRole('button', { name, exact: true }).click();
+  await page.getByLabel(`PIN for ${name}`).fill(pin);
+  await page.getByRole('button', { name: 'Unlock' }).click();
+  await page.getByRole('button', { name: 'Lock screen' }).waitFor();
+}
+
+async function openRoute(page: Page, hash: string): Promise<void> {
+  await page.evaluate((h) => {
+    location.hash = h;
+  }, hash);
+}
+
+/** Another clinician signs in to the unit server on this tablet from Unit settings and picks a PIN. */
+async function connectAccount(page: Page, account: { username: string; password: string; name: string }, pin: string): Promise<void> {
+  // Opening the settings screen afresh starts with its sign-in panel closed.
+  await openRoute(page, '#/beds');
+  await openRoute(page, '#/settings');
+  await page.getByText('Connect this tablet to the unit server').click();
+  const form = page.locator('form.server-sign-in');
+  await form.getByLabel('Username').fill(account.username);
+  await form.getByLabel('Password').fill(account.password);
+  await form.getByRole('button', { name: 'Sign in' }).click();
+  await form.getByLabel('PIN', { exact: true }).fill(pin);
+  await form.getByLabel('PIN again').fill(pin);
+  await form.getByRole('button', { name: 'Save PIN' }).click();
+  await page.getByText(`Signed in as ${account.name}. This tablet now syncs with the unit server.`).waitFor();
+}
+
+const syncLine = (page: Page) => page.locator('.sync-status__text').textContent();
+
+async function snapshot(page: Page, name: string, fullPage = false): Promise<void> {
+  const path = join(e2eOutputDir, `${name}.png`);
+  mkdirSync(dirname(path), { recursive: true });
+  await page.screenshot({ path, fullPage });
+}
+
+/** The unit server's API as the unit admin on an enrolled desk tablet: the change log and the audit trail. */
+async function adminApi(baseUrl: string, account: { username: string; password: string }) {
+  const call = async (path: string, init: { method?: string; body?: unknown; headers?: Record<string, string> } = {}) => {
+    const response = await fetch(new URL(path, baseUrl), {
+      method: init.method ?? 'GET',
+      headers: { accept: 'application/json', ...(init.body === undefined ? {} : { 'content-type': 'application/json' }), ...init.headers },
+      ...(init.body === undefined ? {} : { body: JSON.stringify(init.body) }),
+    });
+    const text = await response.text();
+    if (response.status >= 300) throw new Error(`${init.method ?? 'GET'} ${path} answered ${response.status}: ${text}`);
+    return JSON.parse(text) as unknown;
+  };
+  const signedIn = (await call('/api/auth/sign-in', { method: 'POST', body: account })) as { token: string };
+  const enrolled = (await call('/api/devices/enroll', { method: 'POST', body: { label: 'Audit desk' }, headers: { authorization: `Bearer ${signedIn.token}` } })) as { deviceToken: string };
+  const headers = { authorization: `Bearer ${signedIn.token}`, 'x-device-token': enrolled.deviceToken };
+  return {
+    async changes(): Promise<Array<{ kind: string; record: unknown }>> {
+      return ((await call('/api/sync/pull?after=0&limit=500', { headers })) as { changes: Array<{ kind: string; record: unknown }> }).changes;
+    },
+    async audit(query: string): Promise<Array<{ kind: string; username: string | null }>> {
+      return ((await call(`/api/audit${query}`, { headers })) as { events: Array<{ kind: string; username: string | null }> }).events;
+    },
+  };
+}
+
 let changeCount = 0;
 const change = <K extends Change['kind']>(kind: K, record: Extract<Change, { kind: K }>['record'], atMs: number): Change =>
   ({ changeId: `e2e-change-${String((changeCount += 1)).padStart(4, '0')}`, kind, deviceTimeMs: atMs, record }) as Change;
@@ -80,7 +162,7 @@ describe.runIf(run && popplerAvailable())('handover at the desk, printed and exp
     server = await startUnitServer({ admin });
     for (const account of [ash, bay, cole]) createAccount(server.dataDir, account);
     api = await adminApi(server.url, { username: admin.username, password: admin.password });
-    unit = (await api.changes()).find((c) => c.kind === 'unit.put')!.record as unknown as Unit;
+    unit = (await api.changes()).find((c) => c.kind === 'unit.put')!.record as Unit;
     // The shift that has just ended is fully in the past whatever the clock says now.
     const nowMs = Date.now();
     shift = previousShift(shiftAt(nowMs, unit.shiftPattern, unit.timeZone), unit.shiftPattern, unit.timeZone);
@@ -159,8 +241,6 @@ describe.runIf(run && popplerAvailable())('handover at the desk, printed and exp
     await joinWardAsAdmin(page, server.url, admin, 'Charge desk tablet', pins.admin);
     await unlockAs(page, admin.name, pins.admin);
     await connectAccount(page, bay, pins.bay);
-    // Leaving the settings screen closes its sign-in panel, so the next account starts afresh.
-    await openRoute(page, '#/beds');
     await connectAccount(page, cole, pins.cole);
     await page.getByRole('button', { name: 'Lock screen' }).click();
     await unlockAs(page, cole.name, pins.cole);
