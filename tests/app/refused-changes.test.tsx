@@ -1,5 +1,6 @@
 import { fireEvent, screen, waitFor, within } from '@testing-library/preact';
 import { describe, expect, it } from 'vitest';
+import { hrefOf, parseRoute } from '../../src/app/routes.ts';
 import { BedPage } from '../../src/app/screens/BedPage.tsx';
 import { RefusedChanges } from '../../src/app/screens/refused/RefusedChanges.tsx';
 import { signRead } from '../../src/store/sign-read.ts';
@@ -66,5 +67,14 @@ describe('a refused read on the bed page', () => {
     await waitFor(() => expect(screen.getAllByText(/^Refused by the server/)).toHaveLength(1));
     expect(screen.getByText(`Refused by the server: ${reason}`).closest('tr')?.querySelector('th')?.textContent).toBe('Tue 10 Mar, 08:00');
     expect(screen.getByText('On the unit server').closest('tr')?.querySelector('th')?.textContent).toBe('Tue 10 Mar, 08:01');
+  });
+});
+
+describe('the routes of the refused list and the audit trail', () => {
+  it('opens them at #/refused and #/audit, and writes the same hashes back', () => {
+    expect(parseRoute('#/refused')).toEqual({ screen: 'refused' });
+    expect(parseRoute('#/audit')).toEqual({ screen: 'audit' });
+    expect(hrefOf({ screen: 'refused' })).toBe('#/refused');
+    expect(hrefOf({ screen: 'audit' })).toBe('#/audit');
   });
 });

@@ -141,6 +141,8 @@ describe.runIf(run)('two tablets on one bed with the unit server', () => {
     await connectAccount(pageC, cole, pins.cole);
     await lockScreen(pageC);
     await unlockAs(pageC, cole.name, pins.cole);
+    // The audit trail is for unit admins only: a charge nurse has no way to it.
+    expect(await pageC.getByRole('link', { name: 'Audit trail' }).count()).toBe(0);
     await openBed(pageC, 'Bed 1');
     await expect.poll(() => readRows(pageC!).count()).toBe(5);
     expect(await authorsOnBedPage(pageC)).toEqual([ash.name, ash.name, ash.name, bay.name, bay.name]);
