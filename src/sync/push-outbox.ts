@@ -4,8 +4,9 @@ import type { PutKind } from './apply-server-changes.ts';
 import { isPutKind, putRecord, syncWriteTables } from './apply-server-changes.ts';
 import type { CallCredentials, ServerConnection } from './server-call.ts';
 import { callServer } from './server-call.ts';
+import { waitsForRole } from './change-needs-role.ts';
 import { SyncError } from './sync-error.ts';
-import type { PushResult } from './sync-protocol.ts';
+import type { PushResult, ServerUser } from './sync-protocol.ts';
 import { maxChangesPerPush, pushResponseSchema } from './sync-protocol.ts';
 import type { ServerVersion } from './sync-settings.ts';
 import { readSyncSetting, serverVersionKey, writeSyncSetting } from './sync-settings.ts';
@@ -128,18 +129,39 @@ async function countAttempt(db: RhythmDb, rows: readonly OutboxRow[]): Promise<v
  * Sends every waiting outbox row in order, in batches of at most 200, and records each answer.
  * A change refused only for now (the server says it may pass later) stays waiting with the reason
  * and is sent again on a later run, never twice in one push.
+ * A change the signed-in account may not send (see waitsForRole) is not sent: it waits with the
+ * reason until an account that may send it signs in.
  * A failed call leaves its rows waiting (one more attempt counted, except when the session has
  * ended, which is not the rows' fault) and stops the push; rows are never deleted, and a refused
  * change stays with its reason where the nurse sees it.
  */
-export async function pushOutbox(db: RhythmDb, connection: ServerConnection, credentials: CallCredentials, batchSize: number = maxChangesPerPush): Promise<PushSummary> {
+export async function pushOutbox(
+  db: RhythmDb,
+  connection: ServerConnection,
+  credentials: CallCredentials,
+  batchSize: number = maxChangesPerPush,
+  pusherRole: ServerUser['role'] | null = null,
+): Promise<PushSummary> {
   const size = Math.max(1, Math.min(batchSize, maxChangesPerPush));
   const summary: PushSummary = { batches: 0, accepted: 0, rejected: 0, deferred: 0, deferredReason: null };
   const sentSeqs = new Set<number>();
   for (;;) {
-    // A row answered in this push is never sent twice in it, even if a retry raced its answer.
-    const rows = (await waitingRows(db, size + sentSeqs.size)).filter((r) => !sentSeqs.has(r.seq!)).slice(0, size);
-    if (rows.length === 0) return summary;
+    // A row answered (or held back) in this push is never sent twice in it, even if a retry raced its answer.
+    const candidates = (await waitingRows(db, size + sentSeqs.size)).filter((r) => !sentSeqs.has(r.seq!)).slice(0, size);
+    if (candidates.length === 0) return summary;
+    const rows: OutboxRow[] = [];
+    for (const row of candidates) {
+      const waits = pusherRole === null ? null : waitsForRole(row.kind, pusherRole);
+      if (waits === null) {
+        rows.push(row);
+        continue;
+      }
+      await db.outbox.update(row.seq!, { rejectReason: waits });
+      sentSeqs.add(row.seq!);
+      summary.deferred += 1;
+      summary.deferredReason ??= waits;
+    }
+    if (rows.length === 0) continue;
     let results: PushResult[];
     try {
       const answer = await callServer(connection, { method: 'POST', path: '/api/sync/push', body: { changes: rows.map((r) => r.change) }, credentials, schema: pushResponseSchema });

@@ -22,6 +22,10 @@ import { cursorKey, readSyncSetting, restoreRecoveryKey, serverVersionKeyPrefix,
 /** The reason shown beside a record that is being sent again. */
 export const resendReason = 'The unit server was restored from a backup and no longer held this; the tablet is sending it again.';
 
+function unitIdOf(row: OutboxRow): string {
+  return row.change.kind === 'unit.put' ? row.change.record.id : row.change.record.unitId;
+}
+
 /** The recovery under way for this unit, or null. */
 export async function currentRecovery(db: RhythmDb, unitId: string): Promise<RestoreRecovery | null> {
   const found = await readSyncSetting<RestoreRecovery>(db, restoreRecoveryKey);
@@ -37,7 +41,8 @@ export async function currentRecovery(db: RhythmDb, unitId: string): Promise<Res
 export async function beginRecovery(db: RhythmDb, unitId: string, nowMs: number): Promise<RestoreRecovery> {
   return db.transaction('rw', [...syncWriteTables], async () => {
     const earlier = await currentRecovery(db, unitId);
-    const accepted = await db.outbox.where('status').equals('accepted').toArray();
+    // Only this unit's rows: work sent to another unit's server before the tablet changed wards is not this server's to hold.
+    const accepted = (await db.outbox.where('status').equals('accepted').toArray()).filter((row) => unitIdOf(row) === unitId);
     const requeued = accepted.map((row) => row.seq!);
     for (const seq of requeued) await db.outbox.update(seq, { status: 'pending' });
     await db.settings.where('key').startsWith(serverVersionKeyPrefix).delete();

@@ -38,7 +38,7 @@ function statusError(status: number, body: unknown): SyncError {
   const serverCode = (body as { code?: unknown } | null)?.code;
   const code = typeof serverCode === 'string' && /^[a-z-]{1,40}$/.test(serverCode) ? serverCode : undefined;
   if (status === 401) return new SyncError('signed-out', 'The unit server asks you to sign in again; nothing was lost and everything waits to send.', { status });
-  if (status === 403) return new SyncError('not-allowed', `The unit server refused this tablet or account${said}. Ask the unit admin to check the tablet's enrolment.`, { status });
+  if (status === 403) return new SyncError('not-allowed', `The unit server refused this tablet or account${said}. Ask the unit admin to check the tablet's enrolment.`, { status, ...(code ? { code } : {}) });
   if (status === 429) return new SyncError('rate-limited', 'The unit server asked the tablet to wait; it will try again.', { status });
   if (status >= 500) return new SyncError('server', `The unit server had a problem (status ${status}); the tablet will try again.`, { status });
   const detail = errors.length > 0 ? `: ${errors.map((e) => e.message).join('; ')}` : said;

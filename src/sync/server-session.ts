@@ -59,6 +59,24 @@ export async function signIn(db: RhythmDb, connection: ServerConnection, input: 
   return answer;
 }
 
+/**
+ * Whether the unit server still knows this tablet's enrolment, asked with the session just opened.
+ * A tablet keeps its device token for good, but the server may have lost it (restored from a
+ * backup taken before the enrolment) or a unit admin may have withdrawn it: then it must be
+ * enrolled again. Only the server's own "not enrolled" answer says no; offline or any other
+ * failure keeps the enrolment the tablet holds.
+ */
+export async function enrolmentStillKnown(db: RhythmDb, connection: ServerConnection): Promise<boolean> {
+  const credentials = await credentialsOf(db);
+  if (!credentials?.deviceToken) return false;
+  try {
+    await callServer(connection, { method: 'GET', path: '/api/me', credentials, schema: z.unknown() });
+    return true;
+  } catch (error) {
+    return !(error instanceof SyncError && error.status === 403 && error.code === 'device-not-enrolled');
+  }
+}
+
 /** Enrols this tablet with the unit (a unit admin's session is needed) and keeps its device token. */
 export async function enrollDevice(db: RhythmDb, connection: ServerConnection, label: string): Promise<EnrollResponse> {
   const trimmed = label.trim();

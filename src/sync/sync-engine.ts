@@ -191,7 +191,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       // A recovery interrupted before it knew what the server lost finishes that first, so nothing is sent twice needlessly.
       const interrupted = await currentRecovery(db, unitId);
       if (interrupted?.phase === 'pulling') await pullAndSortAfterRestore(db, connection, credentials, interrupted);
-      let pushed = await pushOutbox(db, connection, credentials);
+      let pushed = await pushOutbox(db, connection, credentials, undefined, session.user.role);
       let pulled: PullSummary;
       try {
         pulled = await pullChanges(db, connection, credentials, unitId);
@@ -202,7 +202,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         set({ restore: noticeOf(begun) });
         const sorted = await pullAndSortAfterRestore(db, connection, credentials, begun);
         set({ restore: noticeOf(sorted.recovery) });
-        pushed = addPushSummaries(pushed, await pushOutbox(db, connection, credentials));
+        pushed = addPushSummaries(pushed, await pushOutbox(db, connection, credentials, undefined, session.user.role));
         pulled = await pullChanges(db, connection, credentials, unitId);
       }
       const recovery = await currentRecovery(db, unitId);

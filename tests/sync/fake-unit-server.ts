@@ -65,6 +65,8 @@ export class FakeUnitServer {
   requests = 0;
   pushRequests = 0;
   pullRequests = 0;
+  /** Device tokens the server knows; a test removes one to stand for a withdrawn tablet or a restore that lost it. */
+  readonly enrolledTokens = new Set<string>(['device-token-1']);
   /** Changes per push the fake has seen, in order. */
   readonly batchSizes: number[] = [];
   serverNowMs: number;
@@ -239,7 +241,12 @@ export class FakeUnitServer {
     }
     if (url.pathname === '/api/devices/enroll') {
       if (user.role !== 'unit-admin') return reply(403, { error: 'unit admins only' });
+      this.enrolledTokens.add('device-token-1');
       return reply(200, { deviceId: 'device-1', deviceToken: 'device-token-1' });
+    }
+    if (url.pathname === '/api/me') {
+      if (!this.enrolledTokens.has(init.headers['x-device-token'] ?? '')) return reply(403, { error: 'This tablet is not enrolled on your unit.', code: 'device-not-enrolled' });
+      return reply(200, { user, device: { id: 'device-1', label: 'Tablet', enrolledAtMs: 0 } });
     }
     if (url.pathname === '/api/sync/push') {
       this.pushRequests += 1;

@@ -1,8 +1,10 @@
 import { describe, expect, it } from 'vitest';
+import { saveBed } from '../../src/store/unit-setup.ts';
+import { waitsForRole } from '../../src/sync/change-needs-role.ts';
 import { pushOutbox, rejectReasonOf } from '../../src/sync/push-outbox.ts';
 import type { CallCredentials } from '../../src/sync/server-call.ts';
 import { SyncError } from '../../src/sync/sync-error.ts';
-import { ManualClock, bulkSignReads, connectionTo, newServer, newTablet, nurseAsh, readCounts, signReadAt, t0 } from './sync-fixtures.ts';
+import { ManualClock, adminCy, bed, bulkSignReads, connectionTo, newServer, newTablet, nurseAsh, readCounts, signReadAt, t0 } from './sync-fixtures.ts';
 
 async function setUp() {
   const server = await newServer();
@@ -147,6 +149,29 @@ describe('pushOutbox', () => {
     clock.advance(30_000);
     await expect(attempt).rejects.toMatchObject({ kind: 'timeout' });
     expect((await db.outbox.toArray())[0]).toMatchObject({ status: 'pending', attempts: 1 });
+  });
+
+  it('holds back a bed change under a nurse\'s session with the reason, sends the reads behind it, and sends the bed once a unit admin pushes', async () => {
+    const { server, db, connection, credentials } = await setUp();
+    const renamed = { ...bed, label: 'Bed 1 (window)' };
+    await saveBed(db, renamed, t0);
+    await signReadAt(db, t0 + 60_000);
+    const asNurse = await pushOutbox(db, connection, credentials, undefined, 'nurse');
+    expect(asNurse).toMatchObject({ accepted: 1, rejected: 0, deferred: 1, deferredReason: 'This bed change waits for a charge nurse or unit admin to sign in to the unit server on this tablet: only they can send bed changes.' });
+    expect(server.batchSizes).toEqual([1]);
+    const bedRow = (await db.outbox.toArray()).find((r) => r.kind === 'bed.put');
+    expect(bedRow).toMatchObject({ status: 'pending', attempts: 0 });
+    const asAdmin = await pushOutbox(db, connection, { sessionToken: server.sessionFor(adminCy.id), deviceToken: 'device-token-1' }, undefined, 'unit-admin');
+    expect(asAdmin).toMatchObject({ accepted: 1, deferred: 0 });
+    expect((await db.outbox.get(bedRow!.seq!))?.status).toBe('accepted');
+  });
+
+  it('holds back unit settings for anyone but a unit admin', () => {
+    expect(waitsForRole('unit.put', 'charge-nurse')).toMatch(/^This unit settings change waits for a unit admin/);
+    expect(waitsForRole('unit.put', 'unit-admin')).toBeNull();
+    expect(waitsForRole('bed.put', 'charge-nurse')).toBeNull();
+    expect(waitsForRole('read.sign', 'nurse')).toBeNull();
+    expect(waitsForRole('stay.put', 'nurse')).toBeNull();
   });
 
   it('sends nothing when nothing waits', async () => {

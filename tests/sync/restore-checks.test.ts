@@ -3,10 +3,11 @@ import type { Stay } from '../../src/core/records.ts';
 import type { OutboxRow } from '../../src/store/db.ts';
 import { outboxEntry } from '../../src/store/outbox-entry.ts';
 import { anchorStillHolds } from '../../src/sync/pull-changes.ts';
-import { HeldByServer, canonicalJson } from '../../src/sync/recover-after-restore.ts';
+import { HeldByServer, beginRecovery, canonicalJson } from '../../src/sync/recover-after-restore.ts';
+import { cursorKey, readSyncSetting, serverVersionKey, writeSyncSetting } from '../../src/sync/sync-settings.ts';
 import type { PulledChange } from '../../src/sync/sync-protocol.ts';
 import { isServerRestored, serverRestoredError, SyncError } from '../../src/sync/sync-error.ts';
-import { bed, stay, t0 } from './sync-fixtures.ts';
+import { bed, newTablet, stay, t0, unit } from './sync-fixtures.ts';
 
 const bedChange = (seq: number, changeId?: string): PulledChange => ({ seq, kind: 'bed.put', record: bed, serverTimeMs: t0, ...(changeId ? { changeId } : {}) });
 const stayRow = (record: Stay, changeId: string): OutboxRow => ({ ...outboxEntry({ changeId, kind: 'stay.put', deviceTimeMs: t0, record }, t0), seq: 1, status: 'accepted' });
@@ -63,5 +64,25 @@ describe('isServerRestored', () => {
     expect(isServerRestored(new SyncError('refused', 'taken', { status: 409, code: 'username-taken' }))).toBe(false);
     expect(isServerRestored(new SyncError('refused', 'bad', { status: 400 }))).toBe(false);
     expect(isServerRestored(new Error('cursor-ahead'))).toBe(false);
+  });
+});
+
+describe('beginRecovery', () => {
+  it('puts this unit\'s accepted rows back to waiting, leaves refused rows and other units\' rows alone, and forgets the cursor and server versions', async () => {
+    const db = await newTablet();
+    const otherUnitBed = { ...bed, id: 'bed-other-unit', unitId: 'unit-other-0001' };
+    await db.outbox.bulkAdd([
+      { ...outboxEntry({ changeId: 'change-bed-here', kind: 'bed.put', deviceTimeMs: t0, record: bed }, t0), status: 'accepted' },
+      { ...outboxEntry({ changeId: 'change-bed-there', kind: 'bed.put', deviceTimeMs: t0, record: otherUnitBed }, t0), status: 'accepted' },
+      { ...outboxEntry({ changeId: 'change-stay-refused', kind: 'stay.put', deviceTimeMs: t0, record: stay }, t0), status: 'rejected', rejectReason: 'refused' },
+    ]);
+    await writeSyncSetting(db, cursorKey, { unitId: unit.id, cursor: 40, anchorChangeId: 'change-0040' });
+    await writeSyncSetting(db, serverVersionKey('bed.put', bed.id), { seq: 2, record: bed });
+    const recovery = await beginRecovery(db, unit.id, t0);
+    const statuses = Object.fromEntries((await db.outbox.toArray()).map((r) => [r.changeId, r.status]));
+    expect(statuses).toEqual({ 'change-bed-here': 'pending', 'change-bed-there': 'accepted', 'change-stay-refused': 'rejected' });
+    expect(recovery).toMatchObject({ unitId: unit.id, phase: 'pulling', requeuedSeqs: [1], resentCount: 0, doneAtMs: null });
+    expect(await readSyncSetting(db, cursorKey)).toEqual({ unitId: unit.id, cursor: 0 });
+    expect(await readSyncSetting(db, serverVersionKey('bed.put', bed.id))).toBeUndefined();
   });
 });

@@ -16,7 +16,7 @@ import { saveBed } from '../../src/store/unit-setup.ts';
 import { beginRecovery, pullAndSortAfterRestore, resendReason } from '../../src/sync/recover-after-restore.ts';
 import type { ServerConnection, SyncFetch } from '../../src/sync/server-call.ts';
 import { saveServerAccount } from '../../src/sync/server-accounts.ts';
-import { credentialsOf, enrollDevice, signIn } from '../../src/sync/server-session.ts';
+import { credentialsOf, enrollDevice, enrolmentStillKnown, signIn } from '../../src/sync/server-session.ts';
 import type { SyncEngine } from '../../src/sync/sync-engine.ts';
 import { createSyncEngine } from '../../src/sync/sync-engine.ts';
 import type { RestoreRecovery } from '../../src/sync/sync-settings.ts';
@@ -272,6 +272,44 @@ describe('a tablet after the unit server was restored from a backup (SQLite)', (
     expect((await ward.db.reads.toArray())[0]).toMatchObject({ syncStatus: 'accepted' });
     expect((await ward.db.reads.toArray())[0]?.rejectReason).toBeUndefined();
     expect(ward.engine.getState().restore).toMatchObject({ phase: 'done', resentCount: 1 });
+  }, 60_000);
+
+  it('after a restore from before the tablet was enrolled: the admin enrols it again, then the bed, the stay and (once their nurse signs in again) the reads all go back', async () => {
+    await backUp('before-any-tablet.sqlite');
+    const ward = newTablet();
+    await enrolAndSignIn(ward, admin, 'Tablet 1, bay A');
+    await syncOk(ward);
+    const theBed = bed();
+    const stay = stayOn(theBed);
+    await saveBed(ward.db, theBed, clock.nowMs);
+    await admitStay(ward.db, stay, clock.nowMs);
+    await syncOk(ward);
+    await signInAs(ward, ash);
+    await signReads(ward, stay, ash, 2);
+    await syncOk(ward);
+    await restore('before-any-tablet.sqlite');
+
+    // The server has forgotten the session and the tablet: the tablet asks for a sign-in and keeps everything.
+    expect(await ward.engine.syncNow()).toMatchObject({ ok: false, error: { kind: 'signed-out' } });
+    expect(ward.engine.getState()).toMatchObject({ signedIn: false, pendingCount: 0 });
+    expect(await ward.db.reads.count()).toBe(2);
+
+    // The unit admin signs in, finds the enrolment gone and enrols the tablet again; the bed and stay go back under the admin's session.
+    await signIn(ward.db, ward.connection, { username: 'cy', password }, clock.nowMs);
+    expect(await enrolmentStillKnown(ward.db, ward.connection)).toBe(false);
+    await enrollDevice(ward.db, ward.connection, 'Tablet 1, bay A');
+    await ward.engine.refresh();
+    const adminRun = await syncOk(ward);
+    expect(adminRun.pushed).toMatchObject({ accepted: 2, deferred: 2 });
+    expect(ward.engine.getState()).toMatchObject({ lastErrorKind: 'not-yet', restore: { phase: 'sending', resentCount: 4 } });
+
+    // The nurse signs in again on this tablet: her two reads go back, and nothing is doubled.
+    await signInAs(ward, ash);
+    await syncOk(ward);
+    const log = await serverLog();
+    expect(log.map((c) => c.kind)).toEqual(['unit.put', 'bed.put', 'stay.put', 'read.sign', 'read.sign']);
+    expect(await ward.db.reads.where('syncStatus').equals('accepted').count()).toBe(2);
+    expect(ward.engine.getState()).toMatchObject({ pendingCount: 0, rejectedCount: 0, restore: { phase: 'done', resentCount: 4 } });
   }, 60_000);
 
   it('marks a read the server lost as waiting, with the reason, until it is sent again', async () => {

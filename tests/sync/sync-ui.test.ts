@@ -99,6 +99,37 @@ describe('ServerSignIn', () => {
     expect(await verifyPin(db, nurseAsh.id, '4821')).toMatchObject({ id: nurseAsh.id, role: 'nurse' });
   });
 
+  it('offers to enrol the tablet again when the server no longer knows its enrolment (withdrawn, or lost in a restore)', async () => {
+    const server = await newServer();
+    const clock = new ManualClock(t0);
+    const db = await newTablet();
+    await signInTablet(db, server, nurseAsh.id);
+    server.enrolledTokens.delete('device-token-1');
+    render(h(ServerSignIn, { db, connection: connectionTo(server, clock), now: clock.now, onDone: () => undefined, pinIterations }));
+    fireEvent.input(screen.getByLabelText('Username'), { target: { value: adminCy.username } });
+    fireEvent.input(screen.getByLabelText('Password'), { target: { value: adminCy.password } });
+    fireEvent.click(screen.getByRole('button', { name: 'Sign in' }));
+    await screen.findByText('Enrol this tablet');
+    fireEvent.input(screen.getByLabelText('Tablet name'), { target: { value: 'Tablet 1, bay A' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Enrol tablet' }));
+    await screen.findByText('Choose a PIN for this tablet');
+    expect(server.enrolledTokens.has('device-token-1')).toBe(true);
+    expect(screen.queryByRole('note')).toBeNull();
+  });
+
+  it('goes straight to the PIN when the server still knows the tablet', async () => {
+    const server = await newServer();
+    const clock = new ManualClock(t0);
+    const db = await newTablet();
+    await signInTablet(db, server, nurseAsh.id);
+    render(h(ServerSignIn, { db, connection: connectionTo(server, clock), now: clock.now, onDone: () => undefined, pinIterations }));
+    fireEvent.input(screen.getByLabelText('Username'), { target: { value: adminCy.username } });
+    fireEvent.input(screen.getByLabelText('Password'), { target: { value: adminCy.password } });
+    fireEvent.click(screen.getByRole('button', { name: 'Sign in' }));
+    await screen.findByText('Choose a PIN for this tablet');
+    expect(screen.queryByRole('note')).toBeNull();
+  });
+
   it('tells the nurse when the server does not recognise the password, and keeps the form', async () => {
     const server = await newServer();
     const clock = new ManualClock(t0);

@@ -2,7 +2,7 @@ import { useState } from 'preact/hooks';
 import type { RhythmDb } from '../../store/db.ts';
 import type { ServerConnection } from '../server-call.ts';
 import { saveServerAccount } from '../server-accounts.ts';
-import { currentDevice, enrollDevice, signIn } from '../server-session.ts';
+import { enrollDevice, enrolmentStillKnown, signIn } from '../server-session.ts';
 import type { ServerUser } from '../sync-protocol.ts';
 
 /** Props of the server sign-in: the tablet's database, how to reach the server, and what to do once done. */
@@ -51,7 +51,8 @@ export function ServerSignIn({ db, connection, now = Date.now, onDone, pinIterat
     void act(async () => {
       const answer = await signIn(db, connection, { username, password }, now());
       setPassword('');
-      const enrolled = (await currentDevice(db)) !== null;
+      // A tablet whose enrolment the server no longer knows (withdrawn, or lost in a restore) is enrolled again.
+      const enrolled = await enrolmentStillKnown(db, connection);
       setStep(!enrolled && answer.user.role === 'unit-admin' ? { name: 'enrol', user: answer.user } : { name: 'pin', user: answer.user, enrolled });
     });
   };
