@@ -86,7 +86,7 @@ export const defaultPolicy: UnitPolicy = {
     qtcProlongedFemaleMs: { value: 460, severity: 'caution', source: 'Prolonged QTc >= 460 ms in women (Rautaharju et al. 2009, AHA/ACCF/HRS Part IV)' },
     qtcShortMs: { value: 390, severity: 'caution', source: 'Short QTc <= 390 ms (Rautaharju et al. 2009, AHA/ACCF/HRS Part IV)' },
     qtcHighRiskMs: { value: 500, severity: 'urgent', source: 'QTc of 500 ms or more: high torsade risk (Drew et al. 2010 AHA/ACCF statement, > 500 ms; AACN Practice Alert 2016, >= 500 ms; the app flags 500 itself)' },
-    qtcRiseMs: { value: 60, severity: 'urgent', source: 'QTc rise > 60 ms from baseline: high torsade risk (Drew et al. 2010 AHA/ACCF statement)' },
+    qtcRiseMs: { value: 60, severity: 'urgent', source: 'QTc rise > 60 ms: high torsade risk (Drew et al. 2010 AHA/ACCF statement, rise from the pre-drug baseline; the app applies the same limit to the change since the last read)' },
   },
   regularity: {
     maxSpreadMs: 80,

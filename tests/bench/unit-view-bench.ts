@@ -68,9 +68,7 @@ function generateUnit(bedCount: number, days: number, shift: ShiftInstance): Han
 /** A DOM for Preact to render into, set up once: the app's components need `document` and `window`. */
 function installDom(): HTMLElement {
   const window = new Window({ url: 'https://ward.example/' });
-  // tsx compiles the app's .tsx here with the classic JSX runtime (the root tsconfig names no JSX
-  // import source), so its React.createElement calls are pointed at Preact's own h and Fragment.
-  Object.assign(globalThis, { window, document: window.document, React: { createElement: h, Fragment } });
+  Object.assign(globalThis, { window, document: window.document });
   const root = window.document.createElement('div');
   window.document.body.appendChild(root);
   return root as unknown as HTMLElement;
