@@ -4,15 +4,31 @@ import type { Unit } from '../../core/records.ts';
 import { addClinician, listClinicians, verifyPin } from '../../store/clinicians.ts';
 import type { ClinicianRow, RhythmDb } from '../../store/db.ts';
 import { demoClinicians } from '../../store/demo-ward.ts';
+import type { ServerConnection } from '../../sync/server-call.ts';
+import type { SyncEngine } from '../../sync/sync-engine.ts';
+import { ServerSignIn } from '../../sync/ui/ServerSignIn.tsx';
 import { useLiveQuery } from '../use-live-query.ts';
 
 /** Wrong PINs allowed before a wait, and how long the wait is: slows guessing at the screen. */
 const triesBeforeWait = 5;
 const waitAfterTriesMs = 30_000;
 
-/** The locked screen: no patient data, only "who is charting?" and a PIN. */
-export function LockScreen({ db, unit, demoWard, onUnlock }: { db: RhythmDb; unit: Unit; demoWard: boolean; onUnlock: (c: ClinicianRow) => void }) {
+/** How the lock screen reaches the unit server; given only to a tablet enrolled with one. */
+export interface LockScreenServer {
+  connection: ServerConnection;
+  sync: SyncEngine;
+  /** PBKDF2 iterations for the PIN chosen after signing in (tests pass a small number). */
+  pinIterations?: number;
+}
+
+/**
+ * The locked screen: no patient data, only "who is charting?" and a PIN. On a tablet enrolled with
+ * a unit server it also lets a clinician new to this tablet sign in with their unit account and
+ * choose a PIN, so nobody has to wait for a charge nurse to connect them from the unit settings.
+ */
+export function LockScreen({ db, unit, demoWard, onUnlock, server = null }: { db: RhythmDb; unit: Unit; demoWard: boolean; onUnlock: (c: ClinicianRow) => void; server?: LockScreenServer | null }) {
   const clinicians = useLiveQuery(() => listClinicians(db), [db]);
+  const [signingIn, setSigningIn] = useState(false);
   const [chosen, setChosen] = useState<ClinicianRow | null>(null);
   const [pin, setPin] = useState('');
   const [message, setMessage] = useState<string | null>(null);
@@ -45,30 +61,61 @@ export function LockScreen({ db, unit, demoWard, onUnlock }: { db: RhythmDb; uni
   };
 
   if (clinicians === undefined) return <p class="loading">Opening…</p>;
-  if (clinicians.length === 0) return <FirstClinician db={db} />;
+  if (clinicians.length === 0 && !server) return <FirstClinician db={db} />;
+
+  if (server && signingIn) {
+    return (
+      <main class="lock">
+        <h1>Sign in with your unit account</h1>
+        <p class="lock-unit">{unit.name}</p>
+        <p class="lock-note">Patient details stay hidden until you have chosen a PIN for this tablet.</p>
+        <ServerSignIn
+          db={db}
+          connection={server.connection}
+          {...(server.pinIterations ? { pinIterations: server.pinIterations } : {})}
+          onDone={(user) => {
+            // The session just opened is this clinician's: the tablet sends and fetches under it from now on.
+            void server.sync.refresh().then(() => server.sync.syncNow());
+            void db.clinicians.get(user.id).then((row) => {
+              if (row) onUnlock(row);
+            });
+          }}
+        />
+        <div class="actions">
+          <button type="button" class="button button-quiet" onClick={() => setSigningIn(false)}>
+            Back to the clinicians on this tablet
+          </button>
+        </div>
+      </main>
+    );
+  }
 
   return (
     <main class="lock">
       <h1>Who is charting?</h1>
       <p class="lock-unit">{unit.name}</p>
       <p class="lock-note">Patient details are hidden while the screen is locked. Drafts belong to the nurse who typed them.</p>
-      <ul class="clinician-list" aria-label="Clinicians on this tablet">
-        {clinicians.map((c) => (
-          <li key={c.id}>
-            <button
-              type="button"
-              class={`clinician${chosen?.id === c.id ? ' chosen' : ''}`}
-              aria-pressed={chosen?.id === c.id}
-              onClick={() => {
-                setChosen(c);
-                setMessage(null);
-              }}
-            >
-              {c.name}
-            </button>
-          </li>
-        ))}
-      </ul>
+      {clinicians.length === 0 ? (
+        <p>Nobody can unlock this tablet with a PIN yet.</p>
+      ) : (
+        <ul class="clinician-list" aria-label="Clinicians on this tablet">
+          {clinicians.map((c) => (
+            <li key={c.id}>
+              <button
+                type="button"
+                class={`clinician${chosen?.id === c.id ? ' chosen' : ''}`}
+                aria-pressed={chosen?.id === c.id}
+                onClick={() => {
+                  setChosen(c);
+                  setMessage(null);
+                }}
+              >
+                {c.name}
+              </button>
+            </li>
+          ))}
+        </ul>
+      )}
       {chosen ? (
         <form
           class="pin-form"
@@ -90,6 +137,24 @@ export function LockScreen({ db, unit, demoWard, onUnlock }: { db: RhythmDb; uni
         <p class="form-errors" role="alert">
           {message}
         </p>
+      ) : null}
+      {server ? (
+        <section class="lock-online" aria-labelledby="lock-online-title">
+          <h2 id="lock-online-title">Not on this list, or forgot your PIN?</h2>
+          <p>Sign in with the username and password of your unit account, then choose a PIN to unlock this tablet when the network is down.</p>
+          <button
+            type="button"
+            class="button"
+            onClick={() => {
+              setChosen(null);
+              setPin('');
+              setMessage(null);
+              setSigningIn(true);
+            }}
+          >
+            Sign in with your unit account
+          </button>
+        </section>
       ) : null}
       {demoWard ? (
         <p class="demo-pins">
