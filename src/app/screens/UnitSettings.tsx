@@ -1,3 +1,4 @@
+import type { ServerConnection } from '../../sync/server-call.ts';
 import { useCharting } from '../app-context.ts';
 import { DecisionSupportNote } from '../components/DecisionSupportNote.tsx';
 import { ServerConnect } from '../components/ServerConnect.tsx';
@@ -8,7 +9,7 @@ import { WardSettingsForm } from '../settings/WardSettingsForm.tsx';
 import { useLiveQuery } from '../use-live-query.ts';
 
 /** Unit settings: the ward, its beds, the policy with sources and history, clinicians and this tablet. */
-export function UnitSettings() {
+export function UnitSettings({ connection }: { /** The unit server; the page's own origin unless given. */ connection?: ServerConnection } = {}) {
   const { db, unit, policy, clinician, deviceId, sync, demoWard } = useCharting();
   const beds = useLiveQuery(() => db.beds.where('unitId').equals(unit.id).toArray(), [db, unit.id]);
   const waiting = useLiveQuery(() => db.outbox.where('status').anyOf('pending', 'sending').count(), [db]);
@@ -36,7 +37,7 @@ export function UnitSettings() {
         {sync && !demoWard && canEdit ? (
           <details>
             <summary>Connect this tablet to the unit server</summary>
-            <ServerConnect db={db} sync={sync} />
+            <ServerConnect db={db} sync={sync} {...(connection ? { connection } : {})} />
           </details>
         ) : null}
       </section>
