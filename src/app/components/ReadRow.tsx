@@ -16,6 +16,8 @@ export function ReadRow({ derived, stored, timeZone, mine }: { derived: DerivedR
   const { view, analysis } = derived;
   const read = view.current;
   const counts = flagCounts(analysis?.flags ?? []);
+  // A refused read offers its history and the refusal, never an amendment (the server never took the read).
+  const refused = stored?.syncStatus === 'rejected';
   const label = read.counts.rhythmLabel ? rhythmLabel(read.counts.rhythmLabel).name : (read.rhythmText ?? '—');
   return (
     <tr>
@@ -43,7 +45,7 @@ export function ReadRow({ derived, stored, timeZone, mine }: { derived: DerivedR
         {view.amendments.length > 0 ? <span class="amended-tag">Amended ({view.amendments.length})</span> : null}
         {stored ? <span class={`sync sync-${stored.syncStatus}`}>{syncWords[stored.syncStatus]}{stored.rejectReason ? `: ${stored.rejectReason}` : ''}</span> : null}
         <a class="row-link" href={hrefOf({ screen: 'amend', readId: read.id })}>
-          {mine ? 'Amend or view history' : 'View history'}
+          {refused ? 'Why refused, and history' : mine ? 'Amend or view history' : 'View history'}
         </a>
       </td>
     </tr>

@@ -12,6 +12,7 @@ import { AmendHistory } from '../components/AmendHistory.tsx';
 import { FiguresPanel } from '../components/FiguresPanel.tsx';
 import { FlagBanners } from '../components/FlagBanner.tsx';
 import { ReadCountsFields } from '../components/ReadCountsFields.tsx';
+import { RefusedReadNote } from '../components/RefusedReadNote.tsx';
 import { RhythmFields } from '../components/RhythmFields.tsx';
 import { StripTimeFields } from '../components/StripTimeFields.tsx';
 import { leaveFlash } from '../flash-message.ts';
@@ -41,6 +42,7 @@ export function AmendRead({ readId }: { readId: string }) {
   if (!data.read || !data.stay || !view) return <p>This read is not on this tablet. <a href={hrefOf({ screen: 'board' })}>Back to beds</a></p>;
   const { read, stay } = data;
   const mine = read.authorId === clinician.id;
+  const refused = read.syncStatus === 'rejected';
   const original = deriveStayReads(data.reads.map((r) => (r.id === read.id ? read : r)), data.amendments.filter((a) => a.readId !== read.id), stay, policy).find((d) => d.view.read.id === read.id);
   const strip = form ? stripTimeOf(form, unit.timeZone) : null;
   const previous = strip?.ok ? previousFiguresBefore(stay, data.reads, data.amendments, policy, strip.ms, read.id) : undefined;
@@ -72,12 +74,13 @@ export function AmendRead({ readId }: { readId: string }) {
 
   return (
     <section aria-labelledby="amend-title">
-      <h1 id="amend-title">{mine ? 'Amend a signed read' : 'Read history'}: {stay.alias}</h1>
+      <h1 id="amend-title">{refused ? 'Read refused by the unit server' : mine ? 'Amend a signed read' : 'Read history'}: {stay.alias}</h1>
       <p class="sub">
         Signed by {read.authorName}. A signed read is never changed: an amendment is added beside it, with its reason, and the original stays readable.
       </p>
+      {refused ? <RefusedReadNote reason={read.rejectReason} bedId={read.bedId} /> : null}
       <AmendHistory read={read} amendments={view.amendments} originalAnalysis={original?.analysis ?? null} timeZone={unit.timeZone} />
-      {!mine ? (
+      {refused ? null : !mine ? (
         <p class="problem">Only {read.authorName}, who signed this read, may amend it. Add a new read if the figures have changed.</p>
       ) : form && live ? (
         <div class="amend-grid">

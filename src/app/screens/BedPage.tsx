@@ -7,6 +7,7 @@ import { useCharting } from '../app-context.ts';
 import { DecisionSupportNote } from '../components/DecisionSupportNote.tsx';
 import { FlagBanners } from '../components/FlagBanner.tsx';
 import { ReadRow } from '../components/ReadRow.tsx';
+import { RefusedReadNote } from '../components/RefusedReadNote.tsx';
 import { StayFacts } from '../components/StayFacts.tsx';
 import { TrendPlot } from '../components/TrendPlot.tsx';
 import { takeFlash } from '../flash-message.ts';
@@ -18,7 +19,7 @@ import { useNowMs } from '../use-now.ts';
 
 /** One bed: the patient's facts, the latest read's flags, trends with policy limits, and the reads of this shift and before. */
 export function BedPage({ bedId }: { bedId: string }) {
-  const { db, unit, policy, clinician } = useCharting();
+  const { db, unit, policy, clinician, sync, demoWard } = useCharting();
   const nowMs = useNowMs();
   const [flash] = useState(() => takeFlash());
   const data = useLiveQuery(() => loadBedData(db, bedId), [db, bedId]);
@@ -46,6 +47,7 @@ export function BedPage({ bedId }: { bedId: string }) {
   const series = trendSeries(derived, policy, stay.sex);
   const fromMs = Math.min(stay.startMs, derived[0]?.view.current.stripTimeMs ?? stay.startMs);
   const storedById = new Map(data.reads.map((r) => [r.id, r]));
+  const latestStored = latest ? storedById.get(latest.view.read.id) : undefined;
 
   const table = (rows: typeof derived, caption: string) => (
     <table class="reads">
@@ -99,6 +101,13 @@ export function BedPage({ bedId }: { bedId: string }) {
       </div>
       <DecisionSupportNote />
       <h2>Latest read {latest ? `(${clockText(latest.view.current.stripTimeMs, unit.timeZone)})` : ''}</h2>
+      {latestStored?.syncStatus === 'rejected' ? <RefusedReadNote reason={latestStored.rejectReason} bedId={bedId} /> : null}
+      {/* The demo ward and a tablet without a sync engine never send, so "waiting" would never end there. */}
+      {latestStored?.syncStatus === 'pending' && sync && !demoWard ? (
+        <p class="latest-waiting" role="note">
+          This read is still waiting to send to the unit server. It is safe on this tablet; the sync line shows when it has gone.
+        </p>
+      ) : null}
       {latest ? latest.analysis && latest.analysis.flags.length > 0 ? <FlagBanners flags={latest.analysis.flags} /> : <p>No flags on the latest read.</p> : <p>No reads yet: a baseline read is due.</p>}
       <h2>Trends</h2>
       <p class="sub">Dashed lines are the unit policy limits (values on the right). QTc uses one formula throughout: {qtcFormulaNames[policy.defaultQtcFormula]}, the unit's choice.</p>
