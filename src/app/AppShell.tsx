@@ -16,10 +16,11 @@ import { AuditTrail } from './screens/audit/AuditTrail.tsx';
 import { RefusedChanges } from './screens/refused/RefusedChanges.tsx';
 import { useIdleLock } from './use-idle-lock.ts';
 
-const storageWords: Record<PersistenceState, string> = {
-  granted: 'Storage kept by the browser',
-  'not-granted': 'Storage not guaranteed: install the app or keep it in use',
-  unsupported: 'Storage not guaranteed on this browser',
+/** The header's short words for the storage state, and the advice behind them (also in Unit settings). */
+const storageWords: Record<PersistenceState, { short: string; advice: string }> = {
+  granted: { short: 'Storage kept by the browser', advice: "The browser will not clear this tablet's data to free space." },
+  'not-granted': { short: 'Storage not guaranteed', advice: 'Storage not guaranteed: install the app or keep it in use.' },
+  unsupported: { short: 'Storage not guaranteed on this browser', advice: 'Storage not guaranteed on this browser.' },
 };
 
 /** Header, screen and lock for a clinician who is charting. */
@@ -32,10 +33,21 @@ export function AppShell({ onLock, storage }: { onLock: () => void; storage: Per
   return (
     <div class="app">
       <header class="top">
-        <a class="top-unit" href={hrefOf({ screen: 'board' })}>
-          <span class="top-title">{unit.name}</span>
-          {demoWard ? <span class="demo-tag">Demo ward: invented patients, nothing is sent</span> : null}
-        </a>
+        <div class="top-place">
+          <a class="top-unit" href={hrefOf({ screen: 'board' })} title={unit.name}>
+            {unit.name}
+          </a>
+          {demoWard || storage ? (
+            <p class="top-notes">
+              {demoWard ? <span class="demo-tag">Demo ward: invented patients, nothing is sent</span> : null}
+              {storage ? (
+                <span class={`storage storage-${storage}`} title={storageWords[storage].advice}>
+                  {storageWords[storage].short}
+                </span>
+              ) : null}
+            </p>
+          ) : null}
+        </div>
         <nav class="top-nav" aria-label="Main">
           <a href={hrefOf({ screen: 'board' })} aria-current={route.screen === 'board' ? 'page' : undefined}>
             Beds
@@ -56,15 +68,15 @@ export function AppShell({ onLock, storage }: { onLock: () => void; storage: Per
             </a>
           ) : null}
         </nav>
-        <div class="top-who">
-          <span>
-            Charting as <strong>{clinician.name}</strong>
-          </span>
+        {/* Who is charting and the way to stop: kept side by side so the lock is never far from the name. */}
+        <div class="top-who" role="group" aria-label="Who is charting">
+          <p class="top-who-name" title={clinician.name}>
+            <span class="top-who-label">Charting as</span> <strong>{clinician.name}</strong>
+          </p>
           <button type="button" class="button button-quiet" onClick={onLock}>
             Lock screen
           </button>
         </div>
-        {storage ? <p class={`storage storage-${storage}`}>{storageWords[storage]}</p> : null}
       </header>
       {sync && !demoWard ? <SyncStatusBar engine={sync} timeZone={unit.timeZone} onShowRefused={() => go({ screen: 'refused' })} /> : null}
       <UpdateNotice />
