@@ -11,6 +11,7 @@ import { useCharting } from '../app-context.ts';
 import { AmendHistory } from '../components/AmendHistory.tsx';
 import { FiguresPanel } from '../components/FiguresPanel.tsx';
 import { FlagBanners } from '../components/FlagBanner.tsx';
+import { FormErrors } from '../components/FormErrors.tsx';
 import { ReadCountsFields } from '../components/ReadCountsFields.tsx';
 import { RefusedReadNote } from '../components/RefusedReadNote.tsx';
 import { RhythmFields } from '../components/RhythmFields.tsx';
@@ -97,13 +98,7 @@ export function AmendRead({ readId }: { readId: string }) {
               Why is the read amended? (required)
               <textarea rows={2} value={reason} onInput={(e) => setReason(e.currentTarget.value)} />
             </label>
-            {errors.length > 0 ? (
-              <ul class="form-errors" role="alert">
-                {errors.map((m) => (
-                  <li key={m}>{m}</li>
-                ))}
-              </ul>
-            ) : null}
+            <FormErrors messages={errors} />
             <div class="actions">
               <button type="button" class="button button-primary" disabled={saving} onClick={() => void save()}>
                 {saving ? 'Saving…' : `Save amendment as ${clinician.name}`}

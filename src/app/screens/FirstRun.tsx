@@ -9,6 +9,7 @@ import { StorageFullError } from '../../store/storage-full.ts';
 import { saveUnitSetup } from '../../store/unit-setup.ts';
 import { uuidV7 } from '../../store/uuid-v7.ts';
 import { DecisionSupportNote } from '../components/DecisionSupportNote.tsx';
+import { FormErrors } from '../components/FormErrors.tsx';
 import { ServerConnect } from '../components/ServerConnect.tsx';
 import { shiftPresets } from '../shift-presets.ts';
 
@@ -163,13 +164,7 @@ export function FirstRun({ db, sync }: { db: RhythmDb; sync?: SyncEngine }) {
               </label>
             </fieldset>
           ) : null}
-          {errors.length > 0 ? (
-            <ul class="form-errors" role="alert">
-              {errors.map((m) => (
-                <li key={m}>{m}</li>
-              ))}
-            </ul>
-          ) : null}
+          <FormErrors messages={errors} />
           <div class="actions">
             <button type="button" class="button" onClick={() => setStep((step - 1) as 0 | 1 | 2)}>
               Back

@@ -7,6 +7,7 @@ import { demoClinicians } from '../../store/demo-ward.ts';
 import type { ServerConnection } from '../../sync/server-call.ts';
 import type { SyncEngine } from '../../sync/sync-engine.ts';
 import { ServerSignIn } from '../../sync/ui/ServerSignIn.tsx';
+import { FormErrors } from '../components/FormErrors.tsx';
 import { useLiveQuery } from '../use-live-query.ts';
 
 /** Wrong PINs allowed before a wait, and how long the wait is: slows guessing at the screen. */
@@ -194,13 +195,7 @@ function FirstClinician({ db }: { db: RhythmDb }) {
           Add and continue
         </button>
       </form>
-      {errors.length > 0 ? (
-        <ul class="form-errors" role="alert">
-          {errors.map((m) => (
-            <li key={m}>{m}</li>
-          ))}
-        </ul>
-      ) : null}
+      <FormErrors messages={errors} />
     </main>
   );
 }

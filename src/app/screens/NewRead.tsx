@@ -7,6 +7,7 @@ import { StorageFullError } from '../../store/storage-full.ts';
 import { useCharting } from '../app-context.ts';
 import { FiguresPanel } from '../components/FiguresPanel.tsx';
 import { FlagBanners } from '../components/FlagBanner.tsx';
+import { FormErrors } from '../components/FormErrors.tsx';
 import { LiveSummaryBar } from '../components/LiveSummaryBar.tsx';
 import { ReadCountsFields } from '../components/ReadCountsFields.tsx';
 import { ReasonFields } from '../components/ReasonFields.tsx';
@@ -125,13 +126,7 @@ export function NewRead({ bedId }: { bedId: string }) {
               {problem}
             </p>
           ) : null}
-          {signTried && errors.length > 0 ? (
-            <ul class="form-errors" role="alert" aria-label="Fix before signing">
-              {errors.map((e) => (
-                <li key={e.field + e.message}>{messageInWords(e)}</li>
-              ))}
-            </ul>
-          ) : null}
+          {signTried ? <FormErrors messages={errors.map(messageInWords)} label="Fix before signing" /> : null}
           <button type="button" class="button button-primary button-sign" disabled={saving} onClick={() => void sign()}>
             {saving ? 'Saving…' : `Sign read as ${clinician.name}`}
           </button>

@@ -6,6 +6,7 @@ import { loadBedData } from '../../store/board-query.ts';
 import { admitStay, endStay, updateStay } from '../../store/stays.ts';
 import { StorageFullError } from '../../store/storage-full.ts';
 import { uuidV7 } from '../../store/uuid-v7.ts';
+import { FormErrors } from '../components/FormErrors.tsx';
 import { useCharting } from '../app-context.ts';
 import { leaveFlash } from '../flash-message.ts';
 import { go, hrefOf } from '../routes.ts';
@@ -156,13 +157,7 @@ export function StartMonitoring({ bedId }: { bedId: string }) {
           Notes
           <textarea rows={3} maxLength={2000} value={form.notes} onInput={(e) => set('notes', e.currentTarget.value)} />
         </label>
-        {errors.length > 0 ? (
-          <ul class="form-errors" role="alert">
-            {errors.map((m) => (
-              <li key={m}>{m}</li>
-            ))}
-          </ul>
-        ) : null}
+        <FormErrors messages={errors} />
         <div class="actions">
           <button type="submit" class="button button-primary">
             {existing ? 'Save details' : 'Start monitoring'}

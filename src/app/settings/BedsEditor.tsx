@@ -4,6 +4,7 @@ import type { Bed } from '../../core/records.ts';
 import type { RhythmDb } from '../../store/db.ts';
 import { saveBed } from '../../store/unit-setup.ts';
 import { uuidV7 } from '../../store/uuid-v7.ts';
+import { FormErrors } from '../components/FormErrors.tsx';
 
 /** The ward's beds: rename, take out of use, add. */
 export function BedsEditor({ db, unitId, beds, canEdit }: { db: RhythmDb; unitId: string; beds: Bed[]; canEdit: boolean }) {
@@ -59,13 +60,7 @@ export function BedsEditor({ db, unitId, beds, canEdit }: { db: RhythmDb; unitId
           Add bed
         </button>
       </form>
-      {errors.length > 0 ? (
-        <ul class="form-errors" role="alert">
-          {errors.map((m) => (
-            <li key={m}>{m}</li>
-          ))}
-        </ul>
-      ) : null}
+      <FormErrors messages={errors} />
     </fieldset>
   );
 }

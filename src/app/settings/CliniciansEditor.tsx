@@ -2,6 +2,7 @@ import { useState } from 'preact/hooks';
 import { ValidationError } from '../../core/field-error.ts';
 import { addClinician, listClinicians } from '../../store/clinicians.ts';
 import type { ClinicianRole, RhythmDb } from '../../store/db.ts';
+import { FormErrors } from '../components/FormErrors.tsx';
 import { useLiveQuery } from '../use-live-query.ts';
 
 const roleWords: Record<ClinicianRole, string> = { nurse: 'Nurse', 'charge-nurse': 'Charge nurse', 'unit-admin': 'Unit admin' };
@@ -60,13 +61,7 @@ export function CliniciansEditor({ db, canEdit }: { db: RhythmDb; canEdit: boole
           </button>
         </form>
       ) : null}
-      {errors.length > 0 ? (
-        <ul class="form-errors" role="alert">
-          {errors.map((m) => (
-            <li key={m}>{m}</li>
-          ))}
-        </ul>
-      ) : null}
+      <FormErrors messages={errors} />
     </section>
   );
 }

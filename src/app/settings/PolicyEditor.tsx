@@ -7,6 +7,7 @@ import type { Severity, ThresholdKey, UnitPolicy } from '../../core/unit-policy.
 import { thresholdComparators, thresholdKeys, thresholdLabels } from '../../core/unit-policy.ts';
 import type { RhythmDb } from '../../store/db.ts';
 import { changeUnitPolicy } from '../../store/unit-setup.ts';
+import { FormErrors } from '../components/FormErrors.tsx';
 import { SeverityMark } from '../components/SeverityMark.tsx';
 import { dayClockText } from '../time-text.ts';
 
@@ -79,13 +80,7 @@ export function PolicyEditor({ db, unit, policy, changedBy, canEdit }: { db: Rhy
         Why (the unit protocol or decision behind it; required)
         <input value={editing?.reason ?? ''} onInput={(e) => editing && setEditing({ ...editing, reason: e.currentTarget.value })} />
       </label>
-      {errors.length > 0 ? (
-        <ul class="form-errors" role="alert">
-          {errors.map((m) => (
-            <li key={m}>{m}</li>
-          ))}
-        </ul>
-      ) : null}
+      <FormErrors messages={errors} />
       <div class="actions">
         <button type="submit" class="button button-primary">
           Save change

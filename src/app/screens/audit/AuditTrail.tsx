@@ -8,6 +8,7 @@ import { ServerSignIn } from '../../../sync/ui/ServerSignIn.tsx';
 import { useCharting } from '../../app-context.ts';
 import { dayClockText } from '../../time-text.ts';
 import { useLiveQuery } from '../../use-live-query.ts';
+import { FormErrors } from '../../components/FormErrors.tsx';
 import { auditDateRange, auditKindText, auditKindWords, tabletTimeGapText } from './audit-words.ts';
 import { useAuditTrail } from './use-audit-trail.ts';
 import './audit.css';
@@ -132,13 +133,7 @@ export function AuditTrail({ connection: given, pageSize = auditPageSize }: { co
           Show events
         </button>
       </form>
-      {formErrors.length > 0 ? (
-        <ul class="form-errors" role="alert">
-          {formErrors.map((m) => (
-            <li key={m}>{m}</li>
-          ))}
-        </ul>
-      ) : null}
+      <FormErrors messages={formErrors} />
       {load.state === 'loading' ? <p class="loading" role="status">Asking the unit server…</p> : null}
       {load.state === 'failed' ? (
         <div class="problem" role="alert">
