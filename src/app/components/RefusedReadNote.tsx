@@ -12,8 +12,8 @@ export function RefusedReadNote({ reason, bedId }: { reason: string | undefined;
         {reason ?? 'it gave no reason; ask the unit admin.'}
       </p>
       <p>
-        It stays on this tablet but is not on the unit's record, so it cannot be amended. If the strip still needs charting, sign a new read with the counts
-        corrected.
+        It stays on this tablet but is not on the unit's record, so it cannot be amended. If the strip still needs charting, sign a new read; ask the unit
+        admin if the reason is unclear.
       </p>
       <div class="actions">
         <a class="button button-primary" href={hrefOf({ screen: 'new-read', bedId })}>
