@@ -40,7 +40,8 @@ export function AppShell({ onLock, storage }: { onLock: () => void; storage: Per
           {demoWard || storage ? (
             <p class="top-notes">
               {demoWard ? <span class="demo-tag">Demo ward: invented patients, nothing is sent</span> : null}
-              {storage ? (
+              {/* The demo ward holds only invented patients: its tag matters more than the storage state. */}
+              {storage && !demoWard ? (
                 <span class={`storage storage-${storage}`} title={storageWords[storage].advice}>
                   {storageWords[storage].short}
                 </span>
