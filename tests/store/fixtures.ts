@@ -1,5 +1,6 @@
 import type { Bed, ReadCounts, Stay, Unit } from '../../src/core/records.ts';
 import { RhythmDb } from '../../src/store/db.ts';
+import { newReadForm } from '../../src/app/read-form-values.ts';
 import type { ReadDraftForm } from '../../src/store/read-draft.ts';
 
 let dbCount = 0;
@@ -60,25 +61,8 @@ export const normalCounts: ReadCounts = {
 export const author = { id: 'clin-test-ann', name: 'Ann Test' };
 export const otherAuthor = { id: 'clin-test-bob', name: 'Bob Test' };
 
-export const emptyForm: ReadDraftForm = {
-  stripLocalDate: '2026-03-10',
-  stripLocalTime: '08:00',
-  paperSpeedMmPerS: 25,
-  gainMmPerMv: 10,
-  rrSmallBoxes: [''],
-  ppSmallBoxes: [],
-  sixSecondQrsCount: '',
-  prSmallBoxes: '',
-  qrsSmallBoxes: '',
-  qtSmallBoxes: '',
-  rhythmLabel: '',
-  avBlockNoted: false,
-  rhythmText: '',
-  ectopy: '',
-  reason: 'routine',
-  reasonText: '',
-  notes: '',
-};
+/** A blank read form at t0 (08:00 ward time in March, London on GMT), as the new-read screen starts it. */
+export const emptyForm: ReadDraftForm = newReadForm(unit, t0);
 
 /** A database holding the test unit, bed and stay. */
 export async function seededDb(): Promise<RhythmDb> {
