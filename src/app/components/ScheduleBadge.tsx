@@ -1,10 +1,21 @@
 import type { ScheduleState } from '../../core/read-schedule.ts';
 import { clockText, durationText } from '../time-text.ts';
 
+const oneMinuteMs = 60_000;
+
 /** Where a bed stands on its read schedule, in words with a distinct outline (never colour alone). */
 export function ScheduleBadge({ schedule, timeZone }: { schedule: ScheduleState; timeZone: string }) {
   switch (schedule.status) {
     case 'overdue':
+      // The first read of a new patient is due at admission: "overdue by 0 min" would alarm for nothing.
+      if (schedule.overdueByMs < oneMinuteMs) {
+        return (
+          <p class="due due-overdue">
+            <span class="due-word">DUE NOW</span>
+            {schedule.lastReadMs === null ? ' (baseline read for a new patient)' : ''}
+          </p>
+        );
+      }
       return (
         <p class="due due-overdue">
           <span class="due-word">OVERDUE</span> by {durationText(schedule.overdueByMs)}
