@@ -9,6 +9,7 @@ import type { ServerConnection } from '../../src/sync/server-call.ts';
 import type { SyncEngine, SyncEngineOptions } from '../../src/sync/sync-engine.ts';
 import { deviceKey, sessionKey, writeSyncSetting } from '../../src/sync/sync-settings.ts';
 import type { FakeUnitServer } from './fake-unit-server.ts';
+import { normalCounts } from '../store/fixtures.ts';
 
 export const hourMs = 3_600_000;
 /** 10 March 2026, 08:00 UTC: the start of an invented day shift. */
@@ -46,17 +47,7 @@ export const stay: Stay = {
 };
 
 /** 20 small boxes at 25 mm/s: R-R 800 ms, 75 bpm by the 1500 rule (Hall & Hall 2021, Guyton and Hall Textbook of Medical Physiology). */
-export const counts: ReadCounts = {
-  paperSpeedMmPerS: 25,
-  gainMmPerMv: 10,
-  rrSmallBoxes: [20, 20],
-  ppSmallBoxes: [],
-  prSmallBoxes: 4,
-  qrsSmallBoxes: 2,
-  qtSmallBoxes: 10,
-  rhythmLabel: 'sinus-rhythm',
-  avBlockNoted: false,
-};
+export const counts: ReadCounts = normalCounts;
 
 export const nurseAsh = { id: 'user-ash', name: 'Ash Invented', username: 'ash', role: 'nurse' as const, password: 'correct horse' };
 export const nurseBay = { id: 'user-bay', name: 'Bay Invented', username: 'bay', role: 'nurse' as const, password: 'battery staple' };
