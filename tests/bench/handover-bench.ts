@@ -9,6 +9,7 @@ import { shiftAt } from '../../src/core/shifts.ts';
 import type { StayReads } from '../../src/core/stay-reads.ts';
 import { defaultPolicy } from '../../src/core/unit-policy.ts';
 import { formatCount, formatMicroseconds, formatRatio, formatTable, measureThroughput, repeatableRandom } from './bench-helpers.ts';
+import { benchUnit } from './app-bench/bench-ward.ts';
 
 // Handover summaries for a whole unit at one shift change: each bed's stay began a day before the
 // shift, so a summary derives the day's q4h reads before the shift (for the last read before it and
@@ -18,18 +19,7 @@ import { formatCount, formatMicroseconds, formatRatio, formatTable, measureThrou
 const hourMs = 3_600_000;
 const generatorStart = 20_260_310;
 
-const unit: Unit = {
-  id: 'unit-bench-01',
-  name: 'Bench ward, Linden Hill Hospital',
-  timeZone: 'Europe/Berlin',
-  shiftPattern: { shifts: [{ name: 'Day', startLocalTime: '07:00' }, { name: 'Night', startLocalTime: '19:00' }] },
-  readIntervalHours: 4,
-  defaultPaperSpeedMmPerS: 25,
-  defaultGainMmPerMv: 10,
-  idleLockMinutes: 5,
-  policyOverrides: [],
-  updatedAtMs: 0,
-};
+const unit: Unit = { ...benchUnit(0), id: 'unit-bench-01', updatedAtMs: 0 };
 
 /** Counts for one plausible strip: mostly sinus, some irregular, some wide QRS or long QT, at 25 mm/s with half-box resolution. */
 function stripCounts(random: () => number): ReadCounts {

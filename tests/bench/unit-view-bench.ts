@@ -10,6 +10,7 @@ import { shiftAt } from '../../src/core/shifts.ts';
 import { defaultPolicy } from '../../src/core/unit-policy.ts';
 import type { StoredAmendment, StoredHandover, StoredRead } from '../../src/store/db.ts';
 import { formatRatio, formatTable, median, repeatableRandom } from './bench-helpers.ts';
+import { benchUnit } from './app-bench/bench-ward.ts';
 
 // The charge nurse's handover desk at 12, 24 and 48 beds (and 48 beds with a week of reads each):
 // the rows (every bed's handover summary and 24 h trend, from the core) and the render of the bed
@@ -19,18 +20,7 @@ import { formatRatio, formatTable, median, repeatableRandom } from './bench-help
 
 const hourMs = 3_600_000;
 
-const unit: Unit = {
-  id: 'unit-bench-desk',
-  name: 'Bench ward, Linden Hill Hospital',
-  timeZone: 'Europe/Berlin',
-  shiftPattern: { shifts: [{ name: 'Day', startLocalTime: '07:00' }, { name: 'Night', startLocalTime: '19:00' }] },
-  readIntervalHours: 4,
-  defaultPaperSpeedMmPerS: 25,
-  defaultGainMmPerMv: 10,
-  idleLockMinutes: 5,
-  policyOverrides: [],
-  updatedAtMs: 0,
-};
+const unit: Unit = { ...benchUnit(0), id: 'unit-bench-desk', updatedAtMs: 0 };
 
 function counts(random: () => number): ReadCounts {
   const half = (v: number) => Math.round(v * 2) / 2;
