@@ -138,14 +138,9 @@ describe('a tablet after the unit server was restored from a backup (SQLite)', (
     }
   }
 
-  async function serverLog() {
-    return store.pullChanges(unit.id, 0, 10_000);
-  }
-  const readIdsOn = async (tablet: Tablet) => (await tablet.db.reads.toArray()).map((r) => r.id).sort();
-
-  it('answers 409 cursor-ahead, re-sends exactly what the server lost, keeps the later stay edit of another tablet, and ends with 4 reads everywhere', async () => {
+  /** A ward tablet enrolled by the admin, its bed and patient synced, with nurse Ash signed in on it. */
+  async function wardWithAdmittedStay(): Promise<{ ward: Tablet; stay: Stay }> {
     const ward = newTablet();
-    const spare = newTablet();
     await enrolAndSignIn(ward, admin, 'Tablet 1, bay A');
     await syncOk(ward);
     const theBed = bed();
@@ -154,6 +149,17 @@ describe('a tablet after the unit server was restored from a backup (SQLite)', (
     await admitStay(ward.db, stay, clock.nowMs);
     await syncOk(ward);
     await signInAs(ward, ash);
+    return { ward, stay };
+  }
+
+  async function serverLog() {
+    return store.pullChanges(unit.id, 0, 10_000);
+  }
+  const readIdsOn = async (tablet: Tablet) => (await tablet.db.reads.toArray()).map((r) => r.id).sort();
+
+  it('answers 409 cursor-ahead, re-sends exactly what the server lost, keeps the later stay edit of another tablet, and ends with 4 reads everywhere', async () => {
+    const { ward, stay } = await wardWithAdmittedStay();
+    const spare = newTablet();
     await signReads(ward, stay, ash, 2);
     await syncOk(ward);
     // The second tablet edits the stay after the ward tablet admitted it: its version is the latest.
@@ -202,16 +208,8 @@ describe('a tablet after the unit server was restored from a backup (SQLite)', (
   }, 60_000);
 
   it('notices a restore when other tablets have already pushed past its cursor, by the change at the cursor', async () => {
-    const ward = newTablet();
+    const { ward, stay } = await wardWithAdmittedStay();
     const spare = newTablet();
-    await enrolAndSignIn(ward, admin, 'Tablet 1, bay A');
-    await syncOk(ward);
-    const theBed = bed();
-    const stay = stayOn(theBed);
-    await saveBed(ward.db, theBed, clock.nowMs);
-    await admitStay(ward.db, stay, clock.nowMs);
-    await syncOk(ward);
-    await signInAs(ward, ash);
     await syncOk(ward);
     await enrolAndSignIn(spare, bay, 'Tablet 2, bay A');
     await syncOk(spare);
@@ -239,15 +237,7 @@ describe('a tablet after the unit server was restored from a backup (SQLite)', (
   }, 60_000);
 
   it('shows "re-sending" while the recovery is cut off mid-way, keeps the lost read waiting with the reason, and finishes on the next run', async () => {
-    const ward = newTablet();
-    await enrolAndSignIn(ward, admin, 'Tablet 1, bay A');
-    await syncOk(ward);
-    const theBed = bed();
-    const stay = stayOn(theBed);
-    await saveBed(ward.db, theBed, clock.nowMs);
-    await admitStay(ward.db, stay, clock.nowMs);
-    await syncOk(ward);
-    await signInAs(ward, ash);
+    const { ward, stay } = await wardWithAdmittedStay();
     await syncOk(ward);
     await backUp('nightly.sqlite');
     await signReads(ward, stay, ash, 1);
@@ -276,15 +266,7 @@ describe('a tablet after the unit server was restored from a backup (SQLite)', (
 
   it('after a restore from before the tablet was enrolled: the admin enrols it again, then the bed, the stay and (once their nurse signs in again) the reads all go back', async () => {
     await backUp('before-any-tablet.sqlite');
-    const ward = newTablet();
-    await enrolAndSignIn(ward, admin, 'Tablet 1, bay A');
-    await syncOk(ward);
-    const theBed = bed();
-    const stay = stayOn(theBed);
-    await saveBed(ward.db, theBed, clock.nowMs);
-    await admitStay(ward.db, stay, clock.nowMs);
-    await syncOk(ward);
-    await signInAs(ward, ash);
+    const { ward, stay } = await wardWithAdmittedStay();
     await signReads(ward, stay, ash, 2);
     await syncOk(ward);
     await restore('before-any-tablet.sqlite');
@@ -313,15 +295,7 @@ describe('a tablet after the unit server was restored from a backup (SQLite)', (
   }, 60_000);
 
   it('marks a read the server lost as waiting, with the reason, until it is sent again', async () => {
-    const ward = newTablet();
-    await enrolAndSignIn(ward, admin, 'Tablet 1, bay A');
-    await syncOk(ward);
-    const theBed = bed();
-    const stay = stayOn(theBed);
-    await saveBed(ward.db, theBed, clock.nowMs);
-    await admitStay(ward.db, stay, clock.nowMs);
-    await syncOk(ward);
-    await signInAs(ward, ash);
+    const { ward, stay } = await wardWithAdmittedStay();
     await syncOk(ward);
     await backUp('nightly.sqlite');
     await signReads(ward, stay, ash, 1);
