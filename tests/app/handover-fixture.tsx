@@ -7,7 +7,7 @@ import { addClinician } from '../../src/store/clinicians.ts';
 import type { ClinicianRow, RhythmDb, StoredRead } from '../../src/store/db.ts';
 import { unitPolicyOf } from '../../src/store/unit-policy-of.ts';
 import type { SyncEngine, SyncState } from '../../src/sync/sync-engine.ts';
-import { newTestDb } from '../store/fixtures.ts';
+import { newTestDb, unit } from '../store/fixtures.ts';
 
 // An invented ward of four beds whose reads came from three tablets (three nurses, three device
 // ids), as the charge nurse's tablet holds them after pulling from the unit server.
@@ -17,18 +17,7 @@ export const hourMs = 3_600_000;
 export const deskNowMs = Date.UTC(2026, 2, 10, 18, 30);
 export const dayShiftKey = '2026-03-10/Day';
 
-export const deskUnit: Unit = {
-  id: 'unit-desk-0001',
-  name: '4 East Telemetry (test)',
-  timeZone: 'Europe/London',
-  shiftPattern: { shifts: [{ name: 'Day', startLocalTime: '07:00' }, { name: 'Night', startLocalTime: '19:00' }] },
-  readIntervalHours: 4,
-  defaultPaperSpeedMmPerS: 25,
-  defaultGainMmPerMv: 10,
-  idleLockMinutes: 5,
-  policyOverrides: [],
-  updatedAtMs: deskNowMs - 100 * hourMs,
-};
+export const deskUnit: Unit = { ...unit, id: 'unit-desk-0001', name: '4 East Telemetry (test)', updatedAtMs: deskNowMs - 100 * hourMs };
 
 export const ann = { id: 'clin-desk-ann', name: 'Ann Ward' };
 export const bob = { id: 'clin-desk-bob', name: 'Bob Ward' };
