@@ -9,24 +9,13 @@ import type { ServerConnection } from '../../src/sync/server-call.ts';
 import type { SyncEngine, SyncEngineOptions } from '../../src/sync/sync-engine.ts';
 import { deviceKey, sessionKey, writeSyncSetting } from '../../src/sync/sync-settings.ts';
 import type { FakeUnitServer } from './fake-unit-server.ts';
-import { normalCounts } from '../store/fixtures.ts';
+import { normalCounts, unit as storeUnit } from '../store/fixtures.ts';
 
 export const hourMs = 3_600_000;
 /** 10 March 2026, 08:00 UTC: the start of an invented day shift. */
 export const t0 = Date.UTC(2026, 2, 10, 8, 0);
 
-export const unit: Unit = {
-  id: 'unit-sync-0001',
-  name: 'Invented Ward 4 East',
-  timeZone: 'Europe/London',
-  shiftPattern: { shifts: [{ name: 'Day', startLocalTime: '07:00' }, { name: 'Night', startLocalTime: '19:00' }] },
-  readIntervalHours: 4,
-  defaultPaperSpeedMmPerS: 25,
-  defaultGainMmPerMv: 10,
-  idleLockMinutes: 5,
-  policyOverrides: [],
-  updatedAtMs: t0 - 48 * hourMs,
-};
+export const unit: Unit = { ...storeUnit, id: 'unit-sync-0001', name: 'Invented Ward 4 East', updatedAtMs: t0 - 48 * hourMs };
 
 export const bed: Bed = { id: 'bed-sync-0001', unitId: unit.id, label: 'Bed 1', sortOrder: 0, active: true };
 
