@@ -206,17 +206,19 @@ export function flagRead(ctx: FlagContext, policy: UnitPolicy): Flag[] {
     push(limitFlag('qtc-short', ctx.qtcFigure, qtc, 'ms', 'qtcShortMs', t.qtcShortMs, ' (short QTc)'));
 
     const rise = t.qtcRiseMs;
+    // A rise flag: the change from an earlier QTc by the same formula, when it exceeds the rise limit.
+    const riseFlag = (code: 'qtc-rise-from-baseline' | 'qtc-rise-since-last-read', fromMs: number, howWords: string): Flag => ({
+      code,
+      severity: rise.severity,
+      figure: ctx.qtcFigure,
+      value: qtc - fromMs,
+      unit: 'ms',
+      limit: { comparator: '>', value: rise.value, key: 'qtcRiseMs' },
+      source: rise.source,
+      sentence: `${ctx.qtcFigure} has risen ${show(qtc - fromMs, 'ms')} ${howWords}, more than ${rise.value} ms. ${escalationCaution}`,
+    });
     if (ctx.baselineQtcMs !== undefined && qtc - ctx.baselineQtcMs > rise.value) {
-      flags.push({
-        code: 'qtc-rise-from-baseline',
-        severity: rise.severity,
-        figure: ctx.qtcFigure,
-        value: qtc - ctx.baselineQtcMs,
-        unit: 'ms',
-        limit: { comparator: '>', value: rise.value, key: 'qtcRiseMs' },
-        source: rise.source,
-        sentence: `${ctx.qtcFigure} has risen ${show(qtc - ctx.baselineQtcMs, 'ms')} from the baseline of ${show(ctx.baselineQtcMs, 'ms')} to ${show(qtc, 'ms')}, more than ${rise.value} ms. ${escalationCaution}`,
-      });
+      flags.push(riseFlag('qtc-rise-from-baseline', ctx.baselineQtcMs, `from the baseline of ${show(ctx.baselineQtcMs, 'ms')} to ${show(qtc, 'ms')}`));
     }
     const prev = ctx.previous;
     if (prev?.qtcMs !== undefined) {
@@ -232,16 +234,7 @@ export function flagRead(ctx: FlagContext, policy: UnitPolicy): Flag[] {
           sentence: `The last read's QTc used ${qtcFormulaNames[prev.qtcFormula]}, this one ${qtcFormulaNames[ctx.qtcFormula]}: the change was not compared. Recalculate both with one formula before comparing.`,
         });
       } else if (qtc - prev.qtcMs > rise.value) {
-        flags.push({
-          code: 'qtc-rise-since-last-read',
-          severity: rise.severity,
-          figure: ctx.qtcFigure,
-          value: qtc - prev.qtcMs,
-          unit: 'ms',
-          limit: { comparator: '>', value: rise.value, key: 'qtcRiseMs' },
-          source: rise.source,
-          sentence: `${ctx.qtcFigure} has risen ${show(qtc - prev.qtcMs, 'ms')} since the last read (${show(prev.qtcMs, 'ms')} to ${show(qtc, 'ms')}), more than ${rise.value} ms. ${escalationCaution}`,
-        });
+        flags.push(riseFlag('qtc-rise-since-last-read', prev.qtcMs, `since the last read (${show(prev.qtcMs, 'ms')} to ${show(qtc, 'ms')})`));
       }
     }
   }
